@@ -22,25 +22,25 @@ type Result struct {
 	Targets         []Target `json:"targets"` // best first (by median rank, then median score, then name)
 
 	// Not part of the JSON document: context for exporters.
-	ProfileTOML string         `json:"-"` // the profile in full, as TOML
+	ProfileTOML string          `json:"-"` // the profile in full, as TOML
 	Revision    schema.Revision `json:"-"`
 }
 
 // Target is one ranked moon.
 type Target struct {
-	Name          string         `json:"name"`
-	Planet        string         `json:"planet"`
-	Star          string         `json:"star"`
-	Rank          float64        `json:"rank"` // median rank over samples (1 = best)
-	RankP05       float64        `json:"rank_p05"`
-	RankP95       float64        `json:"rank_p95"`
-	PTop          PTop           `json:"p_top"`
-	Score         Quantiles      `json:"score"`
-	ScoreMedianSE float64        `json:"score_p50_se"` // Monte Carlo standard error of the score median
-	AssumedInputs []string       `json:"assumed_inputs"`
-	Drivers       []Driver       `json:"drivers"` // largest share first
-	Metrics       Metrics        `json:"metrics"`
-	Inputs        []schema.Param `json:"-"` // every input used, measured or assumed, for exporters
+	Name          string            `json:"name"`
+	Planet        string            `json:"planet"`
+	Star          string            `json:"star"`
+	Rank          float64           `json:"rank"` // median rank over samples (1 = best)
+	RankP05       float64           `json:"rank_p05"`
+	RankP95       float64           `json:"rank_p95"`
+	PTop          PTop              `json:"p_top"`
+	Score         Quantiles         `json:"score"`
+	ScoreMedianSE float64           `json:"score_p50_se"` // Monte Carlo standard error of the score median
+	AssumedInputs []string          `json:"assumed_inputs"`
+	Drivers       []Driver          `json:"drivers"` // largest share first
+	Metrics       Metrics           `json:"metrics"`
+	Inputs        []schema.Param    `json:"-"` // every input used, measured or assumed, for exporters
 	Priors        map[string]string `json:"-"` // key → human description of the prior used for an assumed input
 }
 
@@ -65,15 +65,15 @@ type Driver struct {
 
 // Metrics holds the quantiles of every derived quantity of a target, in SI units.
 type Metrics struct {
-	TidalPower            Quantiles          `json:"tidal_power_w"`
-	RadiogenicPower       Quantiles          `json:"radiogenic_power_w"`
-	HeatFlux              Quantiles          `json:"heat_flux_w_m2"`
-	TidalForce            Quantiles          `json:"tidal_force_n"`
-	SurfaceTemperature    Quantiles          `json:"surface_temperature_k"`
-	EscapeVelocity        Quantiles          `json:"escape_velocity_m_s"`
-	WaterLayerThickness   Quantiles          `json:"water_layer_thickness_m"`
-	IceShellThickness     Quantiles          `json:"ice_shell_thickness_m"`
-	OceanProbability      float64            `json:"ocean_probability"`
-	OceanProbabilitySE    float64            `json:"ocean_probability_se"` // binomial Monte Carlo standard error
-	Retention             map[string]float64 `json:"retention"`            // volatile formula → P(retained)
+	TidalPower          Quantiles          `json:"tidal_power_w"`
+	RadiogenicPower     Quantiles          `json:"radiogenic_power_w"`
+	HeatFlux            Quantiles          `json:"heat_flux_w_m2"`
+	TidalForce          Quantiles          `json:"tidal_force_n"`
+	SurfaceTemperature  Quantiles          `json:"surface_temperature_k"`
+	EscapeVelocity      Quantiles          `json:"escape_velocity_m_s"`
+	WaterLayerThickness Quantiles          `json:"water_layer_thickness_m"`
+	IceShellThickness   Quantiles          `json:"ice_shell_thickness_m"`
+	OceanProbability    float64            `json:"ocean_probability"`
+	OceanProbabilitySE  float64            `json:"ocean_probability_se"` // binomial Monte Carlo standard error
+	Retention           map[string]float64 `json:"retention"`            // volatile formula → P(retained)
 }

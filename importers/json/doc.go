@@ -1,0 +1,62 @@
+// Package json reads a table of moons from JSON: either one array of objects
+// or a stream of objects, usually one per line (NDJSON). Each object is a row;
+// its keys are the same header strings as the canonical CSV layout
+// ("name", "mass [kg]", "mass_err [kg]", ...), and its values are numbers,
+// strings or null. The reader only parses: it hands the importers package a
+// neutral table (see tidesift/importers/table), which maps the columns, converts
+// units and validates.
+//
+//	[
+//	  {"name": "Vasha b I", "planet": "Vasha b", "mass [kg]": 1.2e22, "mass_err [kg]": 3e20},
+//	  {"name": "Vasha b II", "planet": "Vasha b", "mass [kg]": null}
+//	]
+//
+// or, the same table as NDJSON:
+//
+//	{"name": "Vasha b I", "planet": "Vasha b", "mass [kg]": 1.2e22, "mass_err [kg]": 3e20}
+//	{"name": "Vasha b II", "planet": "Vasha b", "mass [kg]": null}
+//
+// Reading it:
+//
+//	r, err := json.NewReader(f, json.Options{})
+//	if err != nil { ... }
+//	for {
+//		cells, row, err := r.Next()
+//		if err == io.EOF {
+//			break
+//		}
+//		...
+//	}
+//
+// # Cells
+//
+// A number is passed on as written in the file (1.2e22 stays "1.2e22", so no
+// precision is lost before unit conversion); a string as its text; null, or a
+// key absent from an object, as "" (missing). true and false become "true" and
+// "false", which the importers reject where a number is needed. A nested object
+// or array as a value is an error naming the element and the key.
+//
+// # Columns
+//
+// The columns are the union of the keys, in order of first appearance. When
+// the input can seek (a regular file), the reader scans it once to collect the
+// keys and then rewinds, so later objects may carry keys the first one lacks.
+// When it cannot (a pipe, or Options.NoPrescan), the columns are the keys of
+// the first object, and a later object with a key the first one lacks is an
+// error naming the element and the key: put every key in the first object,
+// with null where the value is unknown.
+//
+// # Row numbers
+//
+// For an array, the row number is the 1-based index of the element; for a
+// stream of objects, it is the 1-based line on which the object starts. Errors
+// name both where they can.
+//
+// # Limits
+//
+// Hostile or broken files are refused with a *LimitError before they can use
+// unbounded memory: nesting deeper than Options.MaxDepth (64), a string longer
+// than Options.MaxString (1 MiB) or one element larger than
+// Options.MaxElement (16 MiB). The whole file may be arbitrarily large: only one
+// element is held at a time.
+package json

@@ -1,0 +1,396 @@
+package json
+
+import (
+	"bufio"
+	"bytes"
+	stdjson "encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"tidesift/importers/table"
+)
+
+// Default limits; see Options.
+const (
+	DefaultMaxDepth   = 64
+	DefaultMaxString  = 1 << 20
+	DefaultMaxElement = 16 << 20
+)
+
+// Errors returned by NewReader and Next, wrapped in a *RowError or returned
+// as they are. Test with errors.Is.
+var (
+	// ErrEmpty is returned by NewReader when the input holds no object.
+	ErrEmpty = errors.New("no JSON objects in the input")
+	// ErrNotTable is returned when the input is neither an array of objects
+	// nor a stream of objects, or when an element is not an object.
+	ErrNotTable = errors.New("expected an array of objects or one object per line")
+	// ErrNested is returned for a value that is an object or an array.
+	ErrNested = errors.New("nested objects and arrays are not allowed as values; expected a number, a string or null")
+	// ErrUnknownKey is returned, when the columns come from the first object,
+	// for a later object with a key the first one lacks.
+	ErrUnknownKey = errors.New("key not in the first object (put every key in the first object, with null where unknown)")
+	// ErrDuplicateKey is returned for an object that repeats a key.
+	ErrDuplicateKey = errors.New("key repeated in one object")
+	// ErrEmptyKey is returned for a key that is empty or only spaces.
+	ErrEmptyKey = errors.New("empty key")
+)
+
+// Options adjust NewReader. The zero value is ready to use.
+type Options struct {
+	// MaxDepth is the deepest nesting of arrays and objects accepted anywhere
+	// in the input (0: DefaultMaxDepth). A table needs 2.
+	MaxDepth int
+	// MaxString is the longest string accepted, in bytes as written (0:
+	// DefaultMaxString).
+	MaxString int
+	// MaxElement is the largest element (one object) accepted, in bytes as
+	// written (0: DefaultMaxElement).
+	MaxElement int
+	// NoPrescan takes the columns from the first object even when the input
+	// can seek, so the input is read once.
+	NoPrescan bool
+}
+
+func (o Options) withDefaults() Options {
+	if o.MaxDepth <= 0 {
+		o.MaxDepth = DefaultMaxDepth
+	}
+	if o.MaxString <= 0 {
+		o.MaxString = DefaultMaxString
+	}
+	if o.MaxElement <= 0 {
+		o.MaxElement = DefaultMaxElement
+	}
+	return o
+}
+
+// RowError is an error at one element of the input. Row is the element's row
+// number as Next reports it; Line is the line on which the element starts (0
+// if unknown); Key is the key concerned, if any.
+type RowError struct {
+	Row  int
+	Line int
+	Key  string
+	Err  error
+	// array tells how to name Row: element index or line.
+	array bool
+}
+
+func (e *RowError) Error() string {
+	var b strings.Builder
+	if e.array {
+		fmt.Fprintf(&b, "element %d", e.Row)
+		if e.Line > 0 {
+			fmt.Fprintf(&b, " (line %d)", e.Line)
+		}
+	} else {
+		fmt.Fprintf(&b, "line %d", e.Row)
+	}
+	if e.Key != "" {
+		fmt.Fprintf(&b, ", key %q", e.Key)
+	}
+	b.WriteString(": ")
+	b.WriteString(e.Err.Error())
+	return b.String()
+}
+
+func (e *RowError) Unwrap() error { return e.Err }
+
+// Reader reads rows from JSON. It implements table.Reader.
+type Reader struct {
+	opt    Options
+	g      *guard
+	dec    *stdjson.Decoder
+	array  bool // input is one array (else a stream of objects)
+	strict bool // keys outside cols are errors (else they are added)
+
+	cols  []table.Column
+	index map[string]int
+	cells []string
+	seen  []int // seen[i] == gen when column i was set in the current object
+	gen   int
+
+	elem    int  // elements read so far
+	pending bool // cells holds the first object, not yet returned by Next
+	prow    int
+	done    bool
+	err     error
+}
+
+var _ table.Reader = (*Reader)(nil)
+
+// NewReader starts reading a table from r. It reads up to the first object
+// (and, when r is an io.Seeker and Options.NoPrescan is false, the whole input
+// once to collect the keys, then seeks back to where r was).
+func NewReader(r io.Reader, opt Options) (*Reader, error) {
+	opt = opt.withDefaults()
+	if s, ok := r.(io.Seeker); ok && !opt.NoPrescan {
+		if pos, err := s.Seek(0, io.SeekCurrent); err == nil {
+			cols, err := prescan(r, opt)
+			if err != nil {
+				return nil, err
+			}
+			if _, err := s.Seek(pos, io.SeekStart); err != nil {
+				return nil, fmt.Errorf("rewind after scanning the keys: %w", err)
+			}
+			rd, err := start(r, opt, true)
+			if err != nil {
+				return nil, err
+			}
+			for _, c := range cols {
+				rd.addColumn(c.Name)
+			}
+			return rd, nil
+		}
+	}
+	rd, err := start(r, opt, false)
+	if err != nil {
+		return nil, err
+	}
+	// Columns from the first object.
+	if !rd.readObject() {
+		if rd.err == io.EOF {
+			return nil, ErrEmpty
+		}
+		return nil, rd.err
+	}
+	rd.pending, rd.prow = true, rd.row()
+	rd.strict = true
+	return rd, nil
+}
+
+// prescan reads every object once to collect the union of keys.
+func prescan(r io.Reader, opt Options) ([]table.Column, error) {
+	rd, err := start(r, opt, false)
+	if err != nil {
+		return nil, err
+	}
+	for {
+		_, _, err := rd.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+	if len(rd.cols) == 0 {
+		return nil, ErrEmpty
+	}
+	return rd.cols, nil
+}
+
+// start skips a byte-order mark and white space, finds whether the input is
+// an array or a stream of objects, and sets up the guarded decoder.
+func start(r io.Reader, opt Options, strict bool) (*Reader, error) {
+	br := bufio.NewReader(r)
+	if b, err := br.Peek(3); err == nil && bytes.Equal(b, []byte{0xEF, 0xBB, 0xBF}) {
+		br.Discard(3)
+	}
+	line := 1
+	var first byte
+	for {
+		c, err := br.ReadByte()
+		if err == io.EOF {
+			return nil, ErrEmpty
+		}
+		if err != nil {
+			return nil, err
+		}
+		if c == '\n' {
+			line++
+		}
+		if c == ' ' || c == '\t' || c == '\r' || c == '\n' {
+			continue
+		}
+		first = c
+		br.UnreadByte()
+		break
+	}
+	rd := &Reader{opt: opt, strict: strict, index: map[string]int{}}
+	switch first {
+	case '[':
+		rd.array = true
+	case '{':
+	default:
+		return nil, fmt.Errorf("line %d: %w, found %q", line, ErrNotTable, first)
+	}
+	base := 0
+	if rd.array {
+		base = 1
+	}
+	rd.g = &guard{r: br, base: base, line: line, opt: opt, array: rd.array}
+	rd.dec = stdjson.NewDecoder(rd.g)
+	rd.dec.UseNumber()
+	if rd.array {
+		if _, err := rd.dec.Token(); err != nil { // the opening bracket
+			return nil, err
+		}
+	}
+	return rd, nil
+}
+
+func (rd *Reader) addColumn(name string) int {
+	i := len(rd.cols)
+	rd.cols = append(rd.cols, table.Column{Name: name})
+	rd.index[name] = i
+	rd.cells = append(rd.cells, "")
+	rd.seen = append(rd.seen, 0)
+	return i
+}
+
+// Columns returns the columns: the union of keys in order of first appearance.
+func (rd *Reader) Columns() []table.Column { return rd.cols }
+
+// row is the current element's row number: element index or start line.
+func (rd *Reader) row() int {
+	if rd.array {
+		return rd.elem
+	}
+	return rd.g.lineOf(rd.elem)
+}
+
+func (rd *Reader) fail(key string, err error) bool {
+	var le *LimitError
+	if errors.As(err, &le) {
+		// The guard reads ahead of the decoder; its position is the one that matters.
+		rd.err = err
+		return false
+	}
+	if err == io.EOF {
+		err = io.ErrUnexpectedEOF
+	}
+	rd.err = &RowError{Row: rd.row(), Line: rd.g.lineOf(rd.elem), Key: key, Err: err, array: rd.array}
+	return false
+}
+
+// readObject decodes the next element into rd.cells. It returns false at the
+// end (rd.err == io.EOF) or on an error (rd.err).
+func (rd *Reader) readObject() bool {
+	if rd.array && !rd.dec.More() {
+		// Closing bracket, then nothing but white space.
+		if _, err := rd.dec.Token(); err != nil {
+			if err == io.EOF { // where the next element or ']' should be
+				rd.elem++
+			}
+			return rd.fail("", err)
+		}
+		if _, err := rd.dec.Token(); err != io.EOF {
+			if err == nil {
+				err = errors.New("unexpected data after the closing bracket of the array")
+			}
+			rd.elem++
+			return rd.fail("", err)
+		}
+		rd.err = io.EOF
+		return false
+	}
+	tok, err := rd.dec.Token()
+	if err == io.EOF && !rd.array {
+		rd.err = io.EOF
+		return false
+	}
+	rd.elem++
+	if err != nil {
+		return rd.fail("", err)
+	}
+	if d, ok := tok.(stdjson.Delim); !ok || d != '{' {
+		return rd.fail("", fmt.Errorf("%w; found %s", ErrNotTable, describe(tok)))
+	}
+	rd.gen++
+	for i := range rd.cells {
+		rd.cells[i] = ""
+	}
+	for rd.dec.More() {
+		tok, err := rd.dec.Token()
+		if err != nil {
+			return rd.fail("", err)
+		}
+		key, ok := tok.(string)
+		if !ok { // the decoder guarantees a string key; be safe
+			return rd.fail("", fmt.Errorf("expected a key, found %s", describe(tok)))
+		}
+		key = strings.TrimSpace(key)
+		if key == "" {
+			return rd.fail("", ErrEmptyKey)
+		}
+		tok, err = rd.dec.Token()
+		if err != nil {
+			return rd.fail(key, err)
+		}
+		var cell string
+		switch v := tok.(type) {
+		case nil:
+		case string:
+			cell = v
+		case stdjson.Number:
+			cell = string(v)
+		case bool:
+			cell = "false"
+			if v {
+				cell = "true"
+			}
+		case stdjson.Delim:
+			return rd.fail(key, ErrNested)
+		default:
+			return rd.fail(key, fmt.Errorf("unexpected %s", describe(tok)))
+		}
+		i, ok := rd.index[key]
+		if !ok {
+			if rd.strict {
+				return rd.fail(key, ErrUnknownKey)
+			}
+			i = rd.addColumn(key)
+		}
+		if rd.seen[i] == rd.gen {
+			return rd.fail(key, ErrDuplicateKey)
+		}
+		rd.seen[i] = rd.gen
+		rd.cells[i] = cell
+	}
+	if _, err := rd.dec.Token(); err != nil { // closing brace
+		return rd.fail("", err)
+	}
+	return true
+}
+
+// Next returns the next row. See table.Reader.
+func (rd *Reader) Next() ([]string, int, error) {
+	if rd.pending {
+		rd.pending = false
+		return rd.cells, rd.prow, nil
+	}
+	if rd.done {
+		return nil, 0, rd.err
+	}
+	if !rd.readObject() {
+		rd.done = true
+		return nil, 0, rd.err
+	}
+	return rd.cells, rd.row(), nil
+}
+
+func describe(tok stdjson.Token) string {
+	switch v := tok.(type) {
+	case nil:
+		return "null"
+	case string:
+		return "a string"
+	case stdjson.Number:
+		return "a number"
+	case bool:
+		return "a boolean"
+	case stdjson.Delim:
+		if v == '[' {
+			return "an array"
+		}
+		if v == '{' {
+			return "an object"
+		}
+		return fmt.Sprintf("%q", string(v))
+	}
+	return fmt.Sprintf("%T", tok)
+}

@@ -1,0 +1,42 @@
+// Package export writes a ranking result (a *rank.Result) for people and for
+// scripts: a terminal table, CSV, the JSON contract document and a workbook
+// for review panels. It reads the Result only: it never opens the catalog and
+// never recomputes a physical quantity, so every number it shows is one the
+// ranking produced.
+//
+// # Writers
+//
+//   - WriteTable: the plain-text table of `tidesift rank` (text/tabwriter, no
+//     colours, stable for goldens), with a footer giving the samples, seed,
+//     profile and catalog revision and the caution that the scores are a triage
+//     aid on simplified models.
+//   - WriteCSV: one row per target, every quantile as its own numeric column.
+//   - WriteJSON: the machine-readable ranking document (the JSON tags of
+//     rank.Result), indented; a non-finite number is written as null.
+//   - WriteWorkbook / SaveWorkbook: the review workbook with the sheets
+//     Ranking, Derived, Inputs, Drivers, Changes (when WorkbookInfo.Changes is
+//     set) and Method.
+//   - FormatRange: a median with its 5–95 % range as readable text.
+//
+// # Safety
+//
+// A text cell that a spreadsheet would read as a formula (one beginning with
+// '=', '+', '-', '@', a tab, a carriage return or NUL) is written with a
+// leading apostrophe, in CSV and in the workbook alike; numeric cells are never
+// altered. Workbook text is always written as a string cell, never as a
+// formula.
+//
+// # Example
+//
+//	res, err := rank.Run(catalog, profile, opts)
+//	if err != nil { ... }
+//	_ = export.WriteTable(os.Stdout, res, export.TableOptions{Top: 20})
+//	err = export.SaveWorkbook("panel.xlsx", res, export.WorkbookInfo{
+//		Method:  methodText,
+//		Version: version,
+//		Created: time.Now(),
+//	})
+//
+// FormatRange(rank.Quantiles{P05: 75e12, P50: 93e12, P95: 112e12}, "W")
+// returns "93 (75–112) TW".
+package export

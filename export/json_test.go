@@ -1,0 +1,131 @@
+package export
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"reflect"
+	"strings"
+	"testing"
+
+	"tidesift/rank"
+)
+
+// With finite numbers WriteJSON must give exactly what encoding/json gives for
+// the contract's struct tags: this catches any field the encoder mishandles,
+// including fields added to rank.Result later.
+func TestWriteJSONMatchesEncodingJSON(t *testing.T) {
+	r := sampleResult()
+	r.Targets[1].Metrics.IceShellThickness.P95 = 1.5e5 // finite everywhere
+	r.Targets[2].Metrics.IceShellThickness = q(1, 2, 3)
+	r.Targets[2].Drivers = nil // a nil slice is null in both
+	want, err := json.MarshalIndent(r, "", "  ")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got bytes.Buffer
+	if err := WriteJSON(&got, r); err != nil {
+		t.Fatal(err)
+	}
+	if got.String() != string(want)+"\n" {
+		t.Errorf("WriteJSON differs from json.MarshalIndent:\n got: %s\nwant: %s", got.String(), want)
+	}
+}
+
+func TestWriteJSONNonFiniteIsNull(t *testing.T) {
+	r := sampleResult() // Targets[1] has +Inf, Targets[2] NaN
+	if _, err := json.Marshal(r); err == nil {
+		t.Fatal("precondition: encoding/json should refuse NaN/Inf")
+	}
+	var buf bytes.Buffer
+	if err := WriteJSON(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Targets []struct {
+			Metrics map[string]json.RawMessage `json:"metrics"`
+		} `json:"targets"`
+	}
+	if err := json.Unmarshal(buf.Bytes(), &doc); err != nil {
+		t.Fatalf("output is not JSON: %v\n%s", err, buf.String())
+	}
+	shell := func(i int) map[string]*float64 {
+		var m map[string]*float64
+		if err := json.Unmarshal(doc.Targets[i].Metrics["ice_shell_thickness_m"], &m); err != nil {
+			t.Fatal(err)
+		}
+		return m
+	}
+	if m := shell(1); m["p95"] != nil || m["p50"] == nil || *m["p50"] != 70e3 {
+		t.Errorf("target 2 ice shell = %v, want p95 null and p50 70000", m)
+	}
+	if m := shell(2); m["p05"] != nil || m["p50"] != nil || m["p95"] != nil {
+		t.Errorf("target 3 ice shell = %v, want all null", m)
+	}
+}
+
+// TestWriteJSONRoundTrip parses the document back into a rank.Result and
+// compares every contract field (null reads back as 0, so NaN/Inf cells are
+// compared as such).
+func TestWriteJSONRoundTrip(t *testing.T) {
+	r := sampleResult()
+	var buf bytes.Buffer
+	if err := WriteJSON(&buf, r); err != nil {
+		t.Fatal(err)
+	}
+	var back rank.Result
+	if err := json.Unmarshal(buf.Bytes(), &back); err != nil {
+		t.Fatal(err)
+	}
+	want := *r
+	want.ProfileTOML, want.Revision = "", back.Revision // not part of the document
+	want.Targets = append([]rank.Target(nil), r.Targets...)
+	for i := range want.Targets {
+		tg := &want.Targets[i]
+		tg.Inputs, tg.Priors = nil, nil
+		zeroNonFinite(&tg.Metrics.IceShellThickness)
+	}
+	if !reflect.DeepEqual(back, want) {
+		t.Errorf("round trip differs:\n got %+v\nwant %+v", back, want)
+	}
+	for _, name := range []string{`"format_version": 1`, `"catalog_revision": 7`, `"seed": 42`, `"tidal_power_w"`, `"retention"`} {
+		if !strings.Contains(buf.String(), name) {
+			t.Errorf("document lacks %s", name)
+		}
+	}
+}
+
+func zeroNonFinite(q *rank.Quantiles) {
+	for _, p := range []*float64{&q.P05, &q.P50, &q.P95} {
+		if math.IsNaN(*p) || math.IsInf(*p, 0) {
+			*p = 0
+		}
+	}
+}
+
+func TestWriteJSONStable(t *testing.T) {
+	var a, b bytes.Buffer
+	if err := WriteJSON(&a, sampleResult()); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteJSON(&b, sampleResult()); err != nil {
+		t.Fatal(err)
+	}
+	if a.String() != b.String() {
+		t.Error("two writes of equal results differ")
+	}
+	checkGolden(t, "ranking.json.golden", a.Bytes())
+}
+
+func TestWriteNil(t *testing.T) {
+	var buf bytes.Buffer
+	for name, err := range map[string]error{
+		"json":  WriteJSON(&buf, nil),
+		"csv":   WriteCSV(&buf, nil),
+		"table": WriteTable(&buf, nil, TableOptions{}),
+	} {
+		if err == nil {
+			t.Errorf("%s: nil result accepted", name)
+		}
+	}
+}

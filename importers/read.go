@@ -1,0 +1,619 @@
+package importers
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+
+	"golang.org/x/text/unicode/norm"
+
+	"tidesift/importers/csv"
+	"tidesift/importers/table"
+	"tidesift/schema"
+)
+
+// bodyVal is the first value a planet or star was given in this file.
+type bodyVal struct {
+	p    schema.Param
+	row  int
+	text string // the cell as written, for messages
+}
+
+// bodyState tracks one planet or star across the rows of a file, so that two
+// rows cannot give it different values.
+type bodyState struct {
+	name    string // display name, normalised
+	row     int    // first row naming it
+	star    string // planets: the star's display name, "" if none given yet
+	starKey string
+	starRow int
+	vals    map[string]bodyVal
+}
+
+// reader holds the state of one Read.
+type reader struct {
+	p      *plan
+	opt    Options
+	c      collector
+	intern map[string]string
+	moons  map[string]int // moon key → first row
+	bodies map[string]*bodyState
+	keybuf []byte
+	params []schema.Param
+	rowErr []error
+	cells  []string
+}
+
+func readTable(name string, tr table.Reader, opt Options, res *Result, emit func(*schema.Record) error) error {
+	rd := &reader{
+		opt:    opt,
+		c:      collector{list: ErrorList{File: name}, max: opt.maxErrors()},
+		intern: map[string]string{},
+		moons:  map[string]int{},
+		bodies: map[string]*bodyState{},
+	}
+	headerRow := 1
+	if hr, ok := tr.(interface{ HeaderRow() int }); ok {
+		headerRow = hr.HeaderRow()
+	}
+	cols := tr.Columns()
+	res.Columns = make([]string, len(cols))
+	for i, c := range cols {
+		res.Columns[i] = c.Name
+	}
+	rd.p = buildPlan(name, cols, opt.Map, headerRow, &rd.c)
+	if err := rd.c.err(); err != nil {
+		return err
+	}
+	var rec schema.Record
+	for {
+		cells, row, err := tr.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			var rec interface{ Recoverable() bool }
+			if !errors.As(err, &rec) || !rec.Recoverable() {
+				rd.c.add(&ParseError{File: name, Row: row, Err: fmt.Errorf("%w: %w", ErrTableSyntax, err)})
+				return rd.c.err()
+			}
+			res.Rows++
+			pe := &ParseError{File: name, Row: row, Err: err}
+			var re *csv.RowError
+			if errors.As(err, &re) {
+				pe.Err = re.Err
+				if re.Column > 0 && re.Column <= len(rd.p.headers) {
+					pe.Column = rd.p.headers[re.Column-1]
+				}
+			}
+			rd.reject(row, cells, []error{pe}, res)
+			continue
+		}
+		res.Rows++
+		rd.rowErr = rd.rowErr[:0]
+		ok := rd.row(cells, row, &rec)
+		if !ok {
+			rd.reject(row, cells, rd.rowErr, res)
+			continue
+		}
+		if rd.c.list.Len() > 0 && !opt.SkipInvalid {
+			continue // the file fails anyway; keep checking, stop handing out records
+		}
+		if err := emit(&rec); err != nil {
+			return err
+		}
+	}
+	return rd.c.err()
+}
+
+// reject records a bad row: as a Reject under SkipInvalid, as errors otherwise.
+func (rd *reader) reject(row int, cells []string, errs []error, res *Result) {
+	if !rd.opt.SkipInvalid {
+		for _, e := range errs {
+			rd.c.add(e)
+		}
+		return
+	}
+	reasons := make([]string, len(errs))
+	for i, e := range errs {
+		var pe *ParseError
+		if errors.As(e, &pe) {
+			// The report has the file and row in columns of their own.
+			q := *pe
+			q.File, q.Row = "", 0
+			reasons[i] = strings.TrimPrefix(q.Error(), ": ")
+		} else {
+			reasons[i] = e.Error()
+		}
+	}
+	raw := make([]string, len(cells))
+	for i, c := range cells {
+		raw[i] = strings.Clone(c)
+	}
+	res.Rejects = append(res.Rejects, Reject{Row: row, Raw: raw, Reason: strings.Join(reasons, "; ")})
+}
+
+func (rd *reader) fail(row, col int, key, value string, err error, hint string) {
+	pe := &ParseError{File: rd.p.file, Row: row, Key: key, Value: value, Err: err, Hint: hint}
+	if col >= 0 {
+		pe.Column = rd.p.headers[col]
+	}
+	rd.rowErr = append(rd.rowErr, pe)
+}
+
+// cell returns the trimmed text of column i, or "" when the column is absent.
+func cell(cells []string, i int) string {
+	if i < 0 || i >= len(cells) {
+		return ""
+	}
+	return strings.TrimSpace(cells[i])
+}
+
+// isMissing reports the spellings that mean "no value": empty, "--", NaN,
+// null and N/A (any case). Inf is not among them: it is an error.
+func isMissing(s string) bool {
+	switch len(s) {
+	case 0:
+		return true
+	case 2:
+		return s == "--"
+	case 3:
+		return strings.EqualFold(s, "nan") || strings.EqualFold(s, "n/a")
+	case 4:
+		return strings.EqualFold(s, "null")
+	}
+	return false
+}
+
+var errNumber = fmt.Errorf("%w; expected a decimal number such as 4.8e22 or 0.0094, or an empty cell when unknown", ErrNotNumber)
+
+// number parses a trimmed, non-missing cell. Hexadecimal floats, which
+// strconv accepts, are refused: no table writes them and they hide typos.
+func number(s string) (float64, error) {
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c == 'x' || c == 'X' || c == '_' {
+			return 0, errNumber
+		}
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		var ne *strconv.NumError
+		if errors.As(err, &ne) && ne.Err == strconv.ErrRange && math.IsInf(v, 0) {
+			return 0, fmt.Errorf("%w: beyond the range of a 64-bit float", schema.ErrNotFinite)
+		}
+		return 0, errNumber
+	}
+	if math.IsInf(v, 0) {
+		return 0, fmt.Errorf("%w: infinity is not a measurement; leave the cell empty when unknown", schema.ErrNotFinite)
+	}
+	return v, nil
+}
+
+// row converts one data row into rec. It reports false when the row has a
+// problem (recorded in rd.rowErr).
+func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
+	p := rd.p
+	*rec = schema.Record{File: p.file, Row: row}
+
+	// Text fields.
+	rawName := cell(cells, p.text[fieldName])
+	if rawName == "" {
+		rd.fail(row, p.text[fieldName], "name", "", fmt.Errorf("%w: the moon's name is empty", ErrMissingName), "")
+	} else {
+		rec.Name = normName(rawName)
+	}
+	planet := cell(cells, p.text[fieldPlanet])
+	if planet == "" {
+		planet = p.constName[fieldPlanet]
+	} else {
+		planet = rd.internName(planet)
+	}
+	if planet == "" {
+		rd.fail(row, p.text[fieldPlanet], "planet", "", fmt.Errorf("%w: the planet's name is empty; a moon is known by its name and its planet", ErrMissingName), "")
+	}
+	rec.Planet = planet
+	if s := cell(cells, p.text[fieldStar]); s != "" {
+		rec.Star = rd.internName(s)
+	} else {
+		rec.Star = p.constName[fieldStar]
+	}
+	if s := cell(cells, p.text[fieldSource]); s != "" {
+		rec.Source = rd.internText(s)
+	} else {
+		rec.Source = p.constName[fieldSource]
+	}
+	if s := cell(cells, p.text[fieldAlias]); s != "" {
+		for a := range strings.SplitSeq(s, ";") {
+			if a = strings.TrimSpace(a); a != "" {
+				rec.Aliases = append(rec.Aliases, normName(a))
+			}
+		}
+	}
+
+	// Numeric keys, in key order.
+	params := rd.params[:0]
+	for i := range p.keys {
+		kp := &p.keys[i]
+		if par, ok := rd.param(kp, cells, row); ok {
+			params = append(params, par)
+		}
+	}
+	rd.params = params
+
+	// Duplicates, then conflicts with earlier rows about the same planet or star.
+	if rec.Name != "" && planet != "" {
+		rd.keybuf = appendNameKey(append(appendNameKey(rd.keybuf[:0], planet), 0), rec.Name)
+		if first, dup := rd.moons[string(rd.keybuf)]; dup {
+			rd.fail(row, p.text[fieldName], "name", rawName,
+				fmt.Errorf("%w: %q of planet %q is also on row %d; give each moon once per file", ErrDuplicateMoon, rec.Name, planet, first), "")
+		} else {
+			rd.moons[string(rd.keybuf)] = row
+		}
+	}
+	if planet != "" {
+		rd.bodyChecks(rec, row, cells)
+	}
+
+	if len(rd.rowErr) > 0 {
+		return false
+	}
+	if len(params) > 0 {
+		rec.Params = make([]schema.Param, len(params))
+		copy(rec.Params, params)
+	}
+	rd.commitBodies(rec, row, cells)
+	return true
+}
+
+// param reads one key from a row. ok is false when the row gives no value
+// (or a bad one; the problem is then in rd.rowErr).
+func (rd *reader) param(kp *keyPlan, cells []string, row int) (schema.Param, bool) {
+	key := kp.info.Key
+	vi := kp.col[roleValue]
+	vs := cell(cells, vi)
+	var comp [nRoles]float64
+	var present [nRoles]bool
+	bad := false
+	for r := roleErr; r < roleSource; r++ {
+		ci := kp.col[r]
+		if ci < 0 {
+			continue
+		}
+		s := cell(cells, ci)
+		if isMissing(s) {
+			continue
+		}
+		v, err := number(s)
+		if err != nil {
+			rd.fail(row, ci, key, s, err, "")
+			bad = true
+			continue
+		}
+		comp[r] = v * kp.factor[r]
+		present[r] = true
+	}
+	if isMissing(vs) {
+		if kp.konst != nil && !bad && !anyOf(present[:]) {
+			return *kp.konst, true
+		}
+		for r := roleErr; r < roleSource; r++ {
+			if present[r] {
+				rd.fail(row, kp.col[r], key, cell(cells, kp.col[r]),
+					fmt.Errorf("%w: an uncertainty for %s is given but its value is missing; expected a value in column %q too", ErrUncertaintyForm, key, rd.p.headers[vi]), "")
+				break
+			}
+		}
+		return schema.Param{}, false
+	}
+	v, err := number(vs)
+	if err != nil {
+		rd.fail(row, vi, key, vs, err, "")
+		return schema.Param{}, false
+	}
+	v *= kp.factor[roleValue]
+	if err := kp.info.Check(v); err != nil {
+		rd.fail(row, vi, key, vs, err, "")
+		bad = true
+	}
+	par := schema.Param{Key: key, Value: v, Status: schema.StatusMeasured}
+	if si := kp.col[roleSource]; si >= 0 {
+		if s := cell(cells, si); s != "" {
+			par.Source = rd.internText(s)
+		}
+	}
+
+	// Uncertainty: exactly one form.
+	forms := 0
+	u := &par.Unc
+	if present[roleErr] {
+		forms++
+		*u = schema.Uncertainty{Kind: schema.UncSymmetric, Sigma: comp[roleErr]}
+		if comp[roleErr] < 0 {
+			rd.fail(row, kp.col[roleErr], key, cell(cells, kp.col[roleErr]), fmt.Errorf("%w: expected σ ≥ 0", schema.ErrNegativeUncertainty), "")
+			bad = true
+		}
+	}
+	if present[roleErrPlus] || present[roleErrMinus] {
+		forms++
+		if !present[roleErrPlus] || !present[roleErrMinus] {
+			rd.failPair(kp, row, cells, roleErrPlus, roleErrMinus, present)
+			bad = true
+		}
+		*u = schema.Uncertainty{Kind: schema.UncAsymmetric, Plus: comp[roleErrPlus], Minus: comp[roleErrMinus]}
+		for _, r := range []role{roleErrPlus, roleErrMinus} {
+			if present[r] && comp[r] < 0 {
+				rd.fail(row, kp.col[r], key, cell(cells, kp.col[r]), fmt.Errorf("%w: expected a magnitude ≥ 0 (write 0.3, not -0.3, under %s)", schema.ErrNegativeUncertainty, key+roleSuffix[r]), "")
+				bad = true
+			}
+		}
+	}
+	if present[roleMin] || present[roleMax] {
+		forms++
+		if !present[roleMin] || !present[roleMax] {
+			rd.failPair(kp, row, cells, roleMin, roleMax, present)
+			bad = true
+		}
+		*u = schema.Uncertainty{Kind: schema.UncRange, Min: comp[roleMin], Max: comp[roleMax]}
+		if present[roleMin] && present[roleMax] {
+			switch {
+			case comp[roleMin] > comp[roleMax]:
+				rd.fail(row, kp.col[roleMin], key, cell(cells, kp.col[roleMin]),
+					fmt.Errorf("%w: %s_min %s > %s_max %s; expected min ≤ max", schema.ErrMinAboveMax, key, cell(cells, kp.col[roleMin]), key, cell(cells, kp.col[roleMax])), "")
+				bad = true
+			case !bad && (v < comp[roleMin] || v > comp[roleMax]):
+				rd.fail(row, vi, key, vs, fmt.Errorf("%w: expected %s within [%s, %s] (its %s_min and %s_max)",
+					ErrValueOutsideRange, key, cell(cells, kp.col[roleMin]), cell(cells, kp.col[roleMax]), key, key), "")
+				bad = true
+			}
+		}
+	}
+	if present[roleFactor] {
+		forms++
+		*u = schema.Uncertainty{Kind: schema.UncFactor, Factor: comp[roleFactor]}
+		if comp[roleFactor] < 1 {
+			rd.fail(row, kp.col[roleFactor], key, cell(cells, kp.col[roleFactor]), fmt.Errorf("%w: a ×/÷ factor must be ≥ 1 (2 means \"within a factor of 2\")", schema.ErrOutOfDomain), "")
+			bad = true
+		}
+	}
+	if forms > 1 {
+		rd.fail(row, vi, key, "", fmt.Errorf("%w: %s has %d uncertainty forms on this row; expected one of %s_err, %s_err_plus with %s_err_minus, %s_min with %s_max, or %s_factor",
+			ErrUncertaintyForm, key, forms, key, key, key, key, key, key), "")
+		bad = true
+	}
+	if bad {
+		return schema.Param{}, false
+	}
+	if err := u.Validate(); err != nil { // a backstop: the checks above should have caught it
+		rd.fail(row, vi, key, vs, err, "")
+		return schema.Param{}, false
+	}
+	return par, true
+}
+
+func anyOf(b []bool) bool {
+	for _, x := range b {
+		if x {
+			return true
+		}
+	}
+	return false
+}
+
+func (rd *reader) failPair(kp *keyPlan, row int, cells []string, a, b role, present [nRoles]bool) {
+	have, lack := a, b
+	if !present[a] {
+		have, lack = b, a
+	}
+	key := kp.info.Key
+	msg := fmt.Errorf("%w: %s%s is given without %s%s; expected both", ErrUncertaintyForm, key, roleSuffix[have], key, roleSuffix[lack])
+	if kp.col[lack] < 0 {
+		msg = fmt.Errorf("%w: %s%s is given but the file has no %s%s column; expected both", ErrUncertaintyForm, key, roleSuffix[have], key, roleSuffix[lack])
+	}
+	rd.fail(row, kp.col[have], key, cell(cells, kp.col[have]), msg, "")
+}
+
+// planetKey and starKey are the natural keys bodies are tracked under.
+func bodyKey(kind schema.Kind, name string) string {
+	return string(kind) + "\x00" + schema.NameKey(name)
+}
+
+// bodyChecks compares this row's planet and star values with earlier rows'.
+func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
+	p := rd.p
+	pl := rd.bodies[bodyKey(schema.KindPlanet, rec.Planet)]
+	if pl != nil && rec.Star != "" && pl.star != "" && schema.NameKey(rec.Star) != pl.starKey {
+		rd.fail(row, p.text[fieldStar], "star", rec.Star,
+			fmt.Errorf("%w: planet %q has star %q here but star %q on row %d; expected one star per planet", ErrPlanetConflict, rec.Planet, rec.Star, pl.star, pl.starRow), "")
+	}
+	if !p.planetKeys {
+		return
+	}
+	star := rec.Star
+	if star == "" && pl != nil {
+		star = pl.star
+	}
+	for _, par := range rd.params {
+		info, _ := schema.LookupKey(par.Key)
+		var st *bodyState
+		var who string
+		switch info.Body {
+		case schema.KindPlanet:
+			st, who = pl, fmt.Sprintf("planet %q", rec.Planet)
+		case schema.KindStar:
+			if star == "" {
+				rd.fail(row, rd.colOf(par.Key), par.Key, "", fmt.Errorf("%w: %s is a star's value but the row names no star; expected a star column (or [constants] star in a map)", ErrMissingName, par.Key), "")
+				continue
+			}
+			st, who = rd.bodies[bodyKey(schema.KindStar, star)], fmt.Sprintf("star %q", star)
+		default:
+			continue
+		}
+		if st == nil {
+			continue
+		}
+		old, seen := st.vals[par.Key]
+		if !seen || (old.p.Value == par.Value && old.p.Unc == par.Unc) {
+			continue
+		}
+		ci := rd.colOf(par.Key)
+		rd.fail(row, ci, par.Key, cell(cells, ci),
+			fmt.Errorf("%w: %s has %s %s here but %s on row %d; expected the same value on every row (or give it once)",
+				ErrPlanetConflict, who, par.Key, rd.describe(par.Key, cells), old.text, old.row), "")
+	}
+}
+
+// commitBodies remembers this accepted row's planet and star values.
+func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
+	pk := bodyKey(schema.KindPlanet, rec.Planet)
+	pl := rd.bodies[pk]
+	if pl == nil {
+		pl = &bodyState{name: rec.Planet, row: row}
+		rd.bodies[pk] = pl
+	}
+	if rec.Star != "" && pl.star == "" {
+		pl.star, pl.starKey, pl.starRow = rec.Star, schema.NameKey(rec.Star), row
+	}
+	if !rd.p.planetKeys {
+		return
+	}
+	star := rec.Star
+	if star == "" {
+		star = pl.star
+	}
+	for _, par := range rd.params {
+		info, _ := schema.LookupKey(par.Key)
+		st := pl
+		switch info.Body {
+		case schema.KindPlanet:
+		case schema.KindStar:
+			sk := bodyKey(schema.KindStar, star)
+			st = rd.bodies[sk]
+			if st == nil {
+				st = &bodyState{name: star, row: row}
+				rd.bodies[sk] = st
+			}
+		default:
+			continue
+		}
+		if st.vals == nil {
+			st.vals = map[string]bodyVal{}
+		}
+		if _, seen := st.vals[par.Key]; !seen {
+			st.vals[par.Key] = bodyVal{p: par, row: row, text: rd.describe(par.Key, cells)}
+		}
+	}
+}
+
+// describe renders a key's cells on a row as the file wrote them, e.g.
+// "1.2 ± 0.1 jupiterMass".
+func (rd *reader) describe(key string, cells []string) string {
+	for i := range rd.p.keys {
+		kp := &rd.p.keys[i]
+		if kp.info.Key != key {
+			continue
+		}
+		if kp.col[roleValue] < 0 {
+			return "(map constant)"
+		}
+		s := cell(cells, kp.col[roleValue])
+		if e := cell(cells, kp.col[roleErr]); e != "" {
+			s += " ± " + e
+		}
+		if a, b := cell(cells, kp.col[roleErrPlus]), cell(cells, kp.col[roleErrMinus]); a != "" || b != "" {
+			s += " +" + a + " −" + b
+		}
+		if a, b := cell(cells, kp.col[roleMin]), cell(cells, kp.col[roleMax]); a != "" || b != "" {
+			s += " [" + a + ", " + b + "]"
+		}
+		if f := cell(cells, kp.col[roleFactor]); f != "" {
+			s += " ×/÷ " + f
+		}
+		if kp.unit != "" {
+			s += " " + kp.unit
+		}
+		return strings.Clone(s)
+	}
+	return ""
+}
+
+func (rd *reader) colOf(key string) int {
+	for i := range rd.p.keys {
+		if rd.p.keys[i].info.Key == key {
+			return rd.p.keys[i].col[roleValue]
+		}
+	}
+	return -1
+}
+
+// internName normalises a planet or star name and shares one copy per spelling.
+func (rd *reader) internName(s string) string {
+	if v, ok := rd.intern[s]; ok {
+		return v
+	}
+	v := normName(s)
+	rd.intern[strings.Clone(s)] = v
+	return v
+}
+
+// internText shares one copy of a repeated text (a source citation).
+func (rd *reader) internText(s string) string {
+	if v, ok := rd.intern[s]; ok {
+		return v
+	}
+	v := strings.Clone(s)
+	rd.intern[v] = v
+	return v
+}
+
+// normName is the stored form of a name: Unicode NFC, trimmed, runs of white
+// space collapsed to one space; case and everything else are kept for
+// display. The result never shares memory with s (s may pin a whole line).
+func normName(s string) string {
+	s = strings.TrimSpace(s)
+	simple := true
+	prevSpace := false
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if c >= utf8.RuneSelf || c < ' ' || (c == ' ' && prevSpace) {
+			simple = false
+			break
+		}
+		prevSpace = c == ' '
+	}
+	if simple {
+		return strings.Clone(s)
+	}
+	s = norm.NFC.String(s)
+	return strings.Join(strings.FieldsFunc(s, unicode.IsSpace), " ")
+}
+
+// appendNameKey appends the natural-key form of s (schema.NameKey: white
+// space collapsed, lower case) without allocating for ASCII names.
+func appendNameKey(b []byte, s string) []byte {
+	space := false
+	start := len(b)
+	for _, r := range s {
+		if unicode.IsSpace(r) {
+			space = true
+			continue
+		}
+		if space && len(b) > start {
+			b = append(b, ' ')
+		}
+		space = false
+		if r < utf8.RuneSelf {
+			if 'A' <= r && r <= 'Z' {
+				r += 'a' - 'A'
+			}
+			b = append(b, byte(r))
+		} else {
+			b = utf8.AppendRune(b, unicode.ToLower(r))
+		}
+	}
+	return b
+}

@@ -1,9 +1,16 @@
 package physics
 
-import "math"
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+)
 
 // Inputs are the quantities one evaluation of the model needs, in SI units.
-// A missing optional input is NaN. Angles are in radians.
+// A missing optional input is NaN. Angles are in radians. An input that is ±Inf
+// or outside its physical domain is treated as missing and raises
+// FlagOutOfDomain.
 type Inputs struct {
 	Mass               float64 // moon mass, kg
 	Radius             float64 // moon mean radius, m
@@ -23,7 +30,7 @@ type Inputs struct {
 }
 
 // Options are the model parameters a scoring profile sets; they do not vary
-// between Monte Carlo samples.
+// between Monte Carlo samples. DefaultOptions gives cited defaults.
 type Options struct {
 	IceDensity              float64 // kg/m³, H₂O end member of the two-component interior
 	CoreDensity             float64 // kg/m³, metal core of the three-layer interior
@@ -32,6 +39,72 @@ type Options struct {
 	RockHeatProduction      float64 // W/kg, present-day chondritic radiogenic heating of rock
 	MeltingTemperature      float64 // K, base of the ice shell
 	IceStabilityTemperature float64 // K, surface ice unstable above this
+	MinOceanThickness       float64 // m, thinnest liquid layer that counts as an ocean (Derived.OceanQualifies)
+}
+
+// DefaultOptions returns the default model parameters, each from the source
+// named beside it (see also the method text in package rank/method).
+func DefaultOptions() Options {
+	return Options{
+		// Ice Ih near 100 K (Petrenko & Whitworth 1999, Physics of Ice, OUP).
+		IceDensity: 930,
+		// Fe–FeS eutectic core, the lighter end of the core compositions
+		// considered by Anderson et al. 1996 (Nature 384, 541) and 1998
+		// (Science 281, 2019); pure iron would be about 8000.
+		CoreDensity: 5150,
+		// Anhydrous silicate rock; within the 3000–3800 range explored by
+		// Anderson et al. 1998 and close to the mantle density of Io's
+		// water-free two-layer fits (Anderson et al. 2001, J. Geophys. Res.
+		// 106, 32963).
+		MantleDensity: 3250,
+		// Mixed liquid water and ice, the H₂O layer density adopted by
+		// Anderson et al. 1998.
+		WaterDensity: 1000,
+		// CI chondrite, present day (ChondriticHeatProduction).
+		RockHeatProduction: ChondriticHeatProduction,
+		// Pure water ice at 1 bar (WaterMeltingTemperature); a profile sets
+		// AmmoniaWaterEutectic for an ammonia–water ocean.
+		MeltingTemperature: WaterMeltingTemperature,
+		// Temperature at which free sublimation into vacuum (Hertz–Knudsen
+		// with the Murphy & Koop 2005 vapour pressure, IceSublimationRate)
+		// removes about half a kilometre of ice in 4.5 Gyr; at the classic
+		// 110 K stability limit of lunar cold-trap studies (Watson, Murray &
+		// Brown 1961, J. Geophys. Res. 66, 3033; Vasavada, Paige & Wood 1999,
+		// Icarus 141, 179) the loss is under a metre. The limit applies to a
+		// global mean surface temperature, so it is set where a whole ice
+		// layer, not a frost, would be lost.
+		IceStabilityTemperature: 125,
+		// Any liquid layer counts; a profile may ask for more.
+		MinOceanThickness: 0,
+	}
+}
+
+// Validate reports whether the options can be used by Evaluate: every density
+// positive and finite, ρ_w < ρ_m < ρ_c for the three-layer model, temperatures
+// positive, heat production and minimum ocean thickness non-negative.
+func (o Options) Validate() error {
+	var errs []error
+	pos := func(name string, v float64) {
+		if !(v > 0) || math.IsInf(v, 0) {
+			errs = append(errs, fmt.Errorf("%s = %g: want a positive finite number", name, v))
+		}
+	}
+	pos("ice density", o.IceDensity)
+	pos("core density", o.CoreDensity)
+	pos("mantle density", o.MantleDensity)
+	pos("water density", o.WaterDensity)
+	pos("melting temperature", o.MeltingTemperature)
+	pos("ice-stability temperature", o.IceStabilityTemperature)
+	if !(o.RockHeatProduction >= 0) || math.IsInf(o.RockHeatProduction, 0) {
+		errs = append(errs, fmt.Errorf("rock heat production = %g W/kg: want a non-negative finite number", o.RockHeatProduction))
+	}
+	if !(o.MinOceanThickness >= 0) || math.IsInf(o.MinOceanThickness, 0) {
+		errs = append(errs, fmt.Errorf("minimum ocean thickness = %g m: want a non-negative finite number", o.MinOceanThickness))
+	}
+	if !(o.WaterDensity < o.MantleDensity && o.MantleDensity < o.CoreDensity) {
+		errs = append(errs, fmt.Errorf("three-layer densities water %g, mantle %g, core %g kg/m³: want water < mantle < core", o.WaterDensity, o.MantleDensity, o.CoreDensity))
+	}
+	return errors.Join(errs...)
 }
 
 // Derived holds every derived quantity of one evaluation, in SI units.
@@ -55,12 +128,295 @@ type Derived struct {
 	Retained               [NumVolatiles]bool
 	JeansParameter         [NumVolatiles]float64
 	Flags                  Flag
+
+	SurfaceGravity           float64               // m/s²
+	BulkDensity              float64               // kg/m³
+	Interior                 InteriorModel         // which interior model gave RockFraction and the water layer
+	CoreRadius               float64               // m, three-layer model only (NaN otherwise)
+	MantleRadius             float64               // m, outer radius of the rock (three-layer mantle, or two-component rock core)
+	ConductiveShellThickness float64               // m, d = (651/q) ln(T_m/T_s) before capping at the H₂O layer; may be +Inf
+	OceanQualifies           bool                  // Ocean and OceanThickness ≥ Options.MinOceanThickness
+	RetentionTime            [NumVolatiles]float64 // s, Jeans e-folding time of the atmospheric column; NaN without a column; may be +Inf
 }
 
-// Flag records validity warnings of one evaluation.
+// Flag records validity warnings of one evaluation, one bit each.
 type Flag uint32
+
+// Flags raised by Evaluate.
+const (
+	// FlagOutOfDomain: an input was ±Inf or outside its physical domain and
+	// was treated as missing.
+	FlagOutOfDomain Flag = 1 << iota
+	// FlagMeanMotionFromKepler: the period was missing; the mean motion comes
+	// from Kepler's third law.
+	FlagMeanMotionFromKepler
+	// FlagHighEccentricity: e ≥ MaxSmallEccentricity, outside the validity of
+	// the small-eccentricity tidal formula; TidalPower is unreliable.
+	FlagHighEccentricity
+	// FlagNoThreeLayerSolution: a moment of inertia was given but the
+	// three-layer model has no physical solution with the profile's
+	// densities; the two-component interior was used instead.
+	FlagNoThreeLayerSolution
+	// FlagDensityBelowIce: bulk density below the H₂O end member; the rock
+	// fraction was set to 0.
+	FlagDensityBelowIce
+	// FlagDensityAboveRock: bulk density above the rock end member; the rock
+	// fraction was set to 1 (no H₂O).
+	FlagDensityAboveRock
+	// FlagIceUnstable: the surface temperature is at or above the
+	// ice-stability temperature; the H₂O layer was set to zero.
+	FlagIceUnstable
+	// FlagNoIce: the body has no H₂O layer, so no ice shell and no ocean.
+	FlagNoIce
+	// FlagSurfaceAboveMelting: the surface temperature is at or above the
+	// melting temperature; there is no ice shell, and no subsurface ocean.
+	FlagSurfaceAboveMelting
+	// FlagFrozenThrough: the conductive shell is at least as thick as the
+	// H₂O layer: the layer is frozen solid.
+	FlagFrozenThrough
+
+	numFlags = iota
+)
+
+var flagNames = [numFlags]string{
+	"out_of_domain",
+	"mean_motion_from_kepler",
+	"high_eccentricity",
+	"no_three_layer_solution",
+	"density_below_ice",
+	"density_above_rock",
+	"ice_unstable",
+	"no_ice",
+	"surface_above_melting",
+	"frozen_through",
+}
+
+// Names returns the names of the set flags, in bit order (lower snake case,
+// the spelling used in JSON outputs).
+func (f Flag) Names() []string {
+	var out []string
+	for i := range numFlags {
+		if f&(1<<i) != 0 {
+			out = append(out, flagNames[i])
+		}
+	}
+	return out
+}
+
+// String returns the set flags' names joined by "|", or "none".
+func (f Flag) String() string {
+	n := f.Names()
+	if len(n) == 0 {
+		return "none"
+	}
+	return strings.Join(n, "|")
+}
 
 // NumVolatiles is the number of entries in Volatiles.
 const NumVolatiles = 10
 
 var nan = math.NaN()
+
+// sanitize replaces inputs that are ±Inf or outside their physical domain by
+// NaN (missing) and reports whether it did.
+func sanitize(in *Inputs) bool {
+	bad := false
+	chk := func(v *float64, ok bool) {
+		if !math.IsNaN(*v) && (!ok || math.IsInf(*v, 0)) {
+			*v = nan
+			bad = true
+		}
+	}
+	chk(&in.Mass, in.Mass > 0)
+	chk(&in.Radius, in.Radius > 0)
+	chk(&in.SemiMajorAxis, in.SemiMajorAxis > 0)
+	chk(&in.Eccentricity, in.Eccentricity >= 0 && in.Eccentricity < 1)
+	chk(&in.Obliquity, true)
+	chk(&in.Period, in.Period > 0)
+	chk(&in.K2Q, in.K2Q >= 0)
+	chk(&in.BondAlbedo, in.BondAlbedo >= 0 && in.BondAlbedo <= 1)
+	chk(&in.SurfaceTemperature, in.SurfaceTemperature > 0)
+	chk(&in.MomentOfInertia, in.MomentOfInertia > 0 && in.MomentOfInertia <= 2.0/3.0)
+	chk(&in.AtmosphereColumn, in.AtmosphereColumn >= 0)
+	chk(&in.PlanetMass, in.PlanetMass > 0)
+	chk(&in.StarDistance, in.StarDistance > 0)
+	chk(&in.StarLuminosity, in.StarLuminosity >= 0)
+	chk(&in.RockDensity, in.RockDensity > 0)
+	return bad
+}
+
+// Evaluate computes every derived quantity of one moon from in, under the
+// model parameters opt, into out (overwriting every field). It does not
+// allocate, so the Monte Carlo engine can call it once per sample.
+//
+// Order and dependencies (a NaN input makes NaN exactly the quantities
+// listed after it, and their dependants):
+//
+//  1. MeanMotion: 2π/Period; with Period NaN, Kepler's third law from
+//     SemiMajorAxis and PlanetMass (+ Mass if known), FlagMeanMotionFromKepler.
+//  2. TidalPower: K2Q, MeanMotion, Radius, Eccentricity, Obliquity
+//     (FlagHighEccentricity for e ≥ 0.3). TidalForce, TidalAcceleration:
+//     PlanetMass, Mass (force only), Radius, SemiMajorAxis.
+//  3. BulkDensity, SurfaceGravity, EscapeVelocity: Mass, Radius.
+//  4. Interior: with MomentOfInertia, SolveThreeLayer with opt's densities;
+//     without it, or with no physical solution (FlagNoThreeLayerSolution),
+//     the two-component RockFraction from BulkDensity, RockDensity and
+//     opt.IceDensity. Gives RockFraction and a provisional H₂O layer.
+//  5. RadiogenicPower: RockFraction, Mass, opt.RockHeatProduction.
+//  6. HeatFlux: TidalPower + RadiogenicPower over the surface (Radius).
+//  7. EquilibriumTemperature: StarLuminosity, BondAlbedo, StarDistance.
+//     SurfaceTemperature: the input when given, else from
+//     EquilibriumTemperature and HeatFlux.
+//  8. JeansParameter and Retained per volatile: Mass, Radius,
+//     SurfaceTemperature (Retained is false when its JeansParameter is NaN).
+//     RetentionTime: also AtmosphereColumn.
+//  9. WaterLayerThickness: the provisional layer, set to 0 with
+//     FlagIceUnstable when SurfaceTemperature ≥ opt.IceStabilityTemperature
+//     (NaN when SurfaceTemperature is NaN).
+//  10. IceShellThickness: ShellThickness from HeatFlux, SurfaceTemperature and
+//     opt.MeltingTemperature, capped at WaterLayerThickness; OceanThickness,
+//     Ocean and OceanQualifies from OceanThickness.
+func Evaluate(in Inputs, opt Options, out *Derived) {
+	var fl Flag
+	if sanitize(&in) {
+		fl |= FlagOutOfDomain
+	}
+
+	// 1. Mean motion.
+	n := nan
+	if !math.IsNaN(in.Period) {
+		n = MeanMotionFromPeriod(in.Period)
+	} else {
+		n = MeanMotionKepler(in.SemiMajorAxis, in.PlanetMass, in.Mass)
+		if !math.IsNaN(n) {
+			fl |= FlagMeanMotionFromKepler
+		}
+	}
+	out.MeanMotion = n
+
+	// 2. Tides.
+	out.TidalPower = TidalPower(in.K2Q, n, in.Radius, in.Eccentricity, in.Obliquity)
+	if in.Eccentricity >= MaxSmallEccentricity {
+		fl |= FlagHighEccentricity
+	}
+	out.TidalAcceleration = TidalAcceleration(in.PlanetMass, in.Radius, in.SemiMajorAxis)
+	out.TidalForce = in.Mass * out.TidalAcceleration
+
+	// 3. Bulk properties.
+	rho := BulkDensity(in.Mass, in.Radius)
+	out.BulkDensity = rho
+	g := SurfaceGravity(in.Mass, in.Radius)
+	out.SurfaceGravity = g
+	vesc := EscapeVelocity(in.Mass, in.Radius)
+	out.EscapeVelocity = vesc
+
+	// 4. Interior.
+	out.Interior = InteriorNone
+	out.CoreRadius, out.MantleRadius = nan, nan
+	f, water := nan, nan
+	twoComponent := !math.IsNaN(rho)
+	if !math.IsNaN(rho) && !math.IsNaN(in.MomentOfInertia) {
+		sol, ok := SolveThreeLayer(in.Radius, rho, in.MomentOfInertia, opt.CoreDensity, opt.MantleDensity, opt.WaterDensity)
+		if ok {
+			twoComponent = false
+			out.Interior = InteriorThreeLayer
+			f, water = sol.RockFraction, sol.WaterThickness
+			out.CoreRadius, out.MantleRadius = sol.CoreRadius, sol.MantleRadius
+		} else {
+			fl |= FlagNoThreeLayerSolution
+		}
+	}
+	if twoComponent && !math.IsNaN(in.RockDensity) {
+		var ff Flag
+		f, ff = RockFraction(rho, in.RockDensity, opt.IceDensity)
+		fl |= ff
+		water = TwoComponentWaterLayer(in.Radius, rho, f, in.RockDensity)
+		if !math.IsNaN(water) {
+			out.Interior = InteriorTwoComponent
+			out.MantleRadius = in.Radius - water
+		}
+	}
+	out.RockFraction = f
+
+	// 5–6. Heat budget.
+	out.RadiogenicPower = RadiogenicPower(f, in.Mass, opt.RockHeatProduction)
+	q := HeatFlux(out.TidalPower+out.RadiogenicPower, in.Radius)
+	out.HeatFlux = q
+
+	// 7. Temperatures.
+	out.EquilibriumTemperature = EquilibriumTemperature(in.StarLuminosity, in.BondAlbedo, in.StarDistance)
+	ts := in.SurfaceTemperature
+	if math.IsNaN(ts) {
+		ts = SurfaceTemperature(out.EquilibriumTemperature, q)
+	}
+	out.SurfaceTemperature = ts
+
+	// 8. Volatiles. λ_j = (G m / (k T R)) · M_j/N_A; retention v_esc > 6 v̄ ⇔ λ > 4·6²/π.
+	base := nan
+	if ts > 0 {
+		base = G * in.Mass / (Boltzmann * Avogadro * ts * in.Radius)
+	}
+	column := in.AtmosphereColumn
+	var nSurf, tau0 float64 = nan, nan
+	if !math.IsNaN(column) && !math.IsNaN(base) {
+		// τ = column / (μ Φ) with Φ = n v₀ (1+λ) e^{−λ} / (2√π), n = column g / (kT).
+		nSurf = SurfaceNumberDensity(column, g, ts)
+		tau0 = 2 * math.SqrtPi
+	}
+	for j := range NumVolatiles {
+		mm := Volatiles[j].MolarMass
+		lam := base * mm
+		out.JeansParameter[j] = lam
+		out.Retained[j] = lam > retentionLambda
+		switch {
+		case math.IsNaN(tau0):
+			out.RetentionTime[j] = nan
+		case column == 0:
+			out.RetentionTime[j] = 0
+		default:
+			v0 := math.Sqrt(2 * Boltzmann * Avogadro * ts / mm)
+			massFlux := nSurf * (mm / Avogadro) * v0 * (1 + lam) * math.Exp(-lam) / tau0
+			out.RetentionTime[j] = column / massFlux
+		}
+	}
+
+	// 9. Water layer and ice stability.
+	if !math.IsNaN(water) {
+		if math.IsNaN(ts) {
+			water = nan
+		} else if ts >= opt.IceStabilityTemperature {
+			fl |= FlagIceUnstable
+			water = 0
+		}
+	}
+	out.WaterLayerThickness = water
+
+	// 10. Ice shell and ocean.
+	tm := opt.MeltingTemperature
+	d := ShellThickness(q, ts, tm)
+	out.ConductiveShellThickness = d
+	out.Ocean, out.OceanQualifies = false, false
+	switch {
+	case math.IsNaN(water):
+		out.IceShellThickness, out.OceanThickness = nan, nan
+	case water == 0:
+		fl |= FlagNoIce
+		out.IceShellThickness, out.OceanThickness = 0, 0
+		if ts >= tm {
+			fl |= FlagSurfaceAboveMelting
+		}
+	case ts >= tm:
+		fl |= FlagSurfaceAboveMelting
+		out.IceShellThickness, out.OceanThickness = 0, 0
+	case math.IsNaN(d):
+		out.IceShellThickness, out.OceanThickness = nan, nan
+	default:
+		out.IceShellThickness = math.Min(d, water)
+		out.OceanThickness, out.Ocean = OceanThickness(water, d, ts, tm)
+		if !out.Ocean {
+			fl |= FlagFrozenThrough
+		}
+		out.OceanQualifies = out.Ocean && out.OceanThickness >= opt.MinOceanThickness
+	}
+	out.Flags = fl
+}

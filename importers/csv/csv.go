@@ -241,7 +241,9 @@ func (g *guard) Read(p []byte) (int, error) {
 				p[w] = '\n'
 				w++
 				g.pendCR = true
-				g.endLine()
+				if !g.endLine() {
+					return 0, g.err
+				}
 				continue
 			case '\n':
 				if g.pendCR {
@@ -250,7 +252,9 @@ func (g *guard) Read(p []byte) (int, error) {
 				}
 				p[w] = '\n'
 				w++
-				g.endLine()
+				if !g.endLine() {
+					return 0, g.err
+				}
 				continue
 			case '"':
 				if !g.inComment {
@@ -277,10 +281,19 @@ func (g *guard) Read(p []byte) (int, error) {
 	}
 }
 
-func (g *guard) endLine() {
+// endLine ends a physical line; it reports false when a quoted record
+// spanning lines has grown past the cap.
+func (g *guard) endLine() bool {
 	g.line++
 	g.inComment = false
 	if !g.inQuote {
 		g.size = 0
+		return true
 	}
+	g.size++
+	if g.size > g.max {
+		g.err = &tooLong{line: g.recLine, max: g.max}
+		return false
+	}
+	return true
 }

@@ -150,16 +150,24 @@ func SolveThreeLayer(radius, rho, moi, rhoCore, rhoMantle, rhoWater float64) (so
 	if !(cA > 0) {
 		return bad, false
 	}
-	lo := math.Cbrt(cA / (a + b)) // x = y: no mantle
-	if lo > 1 {
-		return bad, false
+	// Bracket the mantle radius y between x = y (no mantle) and the smaller
+	// of y = 1 (no water) and x = 0 (no core); the residuals at the ends
+	// follow in closed form.
+	u := cA / (a + b)
+	if u > 1 {
+		return bad, false // denser than the core
 	}
-	hi := 1.0 // y = 1: no water
+	lo := math.Cbrt(u)
+	glo := (a+b)*u*lo*lo - cB
+	hi, ghi := 1.0, 0.0
 	if t := cA / a; t < 1 {
 		hi = math.Cbrt(t) // x = 0: no core
+		ghi = a*t*hi*hi - cB
+	} else {
+		x3 := (cA - a) / b // y = 1: no water
+		x := math.Cbrt(x3)
+		ghi = a + b*x3*x*x - cB
 	}
-	glo, _, _ := threeLayerResidual(lo, a, b, cA, cB)
-	ghi, _, _ := threeLayerResidual(hi, a, b, cA, cB)
 	if glo > 0 || ghi < 0 {
 		return bad, false
 	}
@@ -179,23 +187,40 @@ func SolveThreeLayer(radius, rho, moi, rhoCore, rhoMantle, rhoWater float64) (so
 		} else {
 			lo = y
 		}
-		next := y - g/dg
+		step := g / dg
+		next := y - step
+		if math.Abs(step) <= 1e-8 && next >= lo && next <= hi {
+			// Newton converges quadratically: after a step this small the
+			// error is of order 1e-16, far below a millimetre on a moon.
+			// Move x along the mass curve to first order, dx/dy = −a y²/(b x²),
+			// unless the core is so small that the slope is steep.
+			if x > 1e-3 {
+				x += a * y * y / (b * x * x) * step
+			} else {
+				x = math.Cbrt(math.Max(0, (cA-a*next*next*next)/b))
+			}
+			y = next
+			return threeLayerSolution(radius, rho, rhoWater, x, y), true
+		}
 		if !(next > lo && next < hi) {
 			next = 0.5 * (lo + hi)
 		}
-		if math.Abs(next-y) <= 1e-15 {
-			y = next
+		if hi-lo <= 1e-14 {
 			break
 		}
 		y = next
 	}
 	_, _, x = threeLayerResidual(y, a, b, cA, cB)
+	return threeLayerSolution(radius, rho, rhoWater, x, y), true
+}
+
+func threeLayerSolution(radius, rho, rhoWater, x, y float64) ThreeLayer {
 	return ThreeLayer{
 		CoreRadius:     x * radius,
 		MantleRadius:   y * radius,
 		WaterThickness: (1 - y) * radius,
 		RockFraction:   1 - rhoWater*(1-y*y*y)/rho,
-	}, true
+	}
 }
 
 // threeLayerResidual returns g(y) = a y⁵ + b x⁵ − B, its derivative along the

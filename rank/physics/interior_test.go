@@ -82,9 +82,11 @@ func TestThreeLayerSyntheticRecovery(t *testing.T) {
 			t.Errorf("%s: no solution for ρ=%g, C/MR²=%g", c.name, rho, moi)
 			continue
 		}
-		approxAbs(t, c.name+" core", sol.CoreRadius, c.rc, 1)
-		approxAbs(t, c.name+" mantle", sol.MantleRadius, c.rm, 1)
-		approxAbs(t, c.name+" water", sol.WaterThickness, c.R-c.rm, 1)
+		// A small core is ill-conditioned (dx/dy ∝ 1/x² along the mass
+		// curve): allow 1 cm on the core, 1 mm on the rest.
+		approxAbs(t, c.name+" core", sol.CoreRadius, c.rc, 1e-2)
+		approxAbs(t, c.name+" mantle", sol.MantleRadius, c.rm, 1e-3)
+		approxAbs(t, c.name+" water", sol.WaterThickness, c.R-c.rm, 1e-3)
 		wantF := 1 - c.rw*(1-math.Pow(c.rm/c.R, 3))/rho
 		approx(t, c.name+" rock fraction", sol.RockFraction, wantF, 1e-9)
 	}

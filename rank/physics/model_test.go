@@ -419,3 +419,19 @@ func BenchmarkEvaluate(b *testing.B) {
 		})
 	}
 }
+
+func BenchmarkSolveThreeLayer(b *testing.B) {
+	opt := DefaultOptions()
+	rho := BulkDensity(europa.mass, europa.radius)
+	for b.Loop() {
+		SolveThreeLayer(europa.radius, rho, europa.moi, opt.CoreDensity, opt.MantleDensity, opt.WaterDensity)
+	}
+}
+
+func BenchmarkCbrt(b *testing.B) {
+	x := 0.3
+	for b.Loop() {
+		x = math.Cbrt(x + 0.5)
+	}
+	_ = x
+}

@@ -99,6 +99,8 @@ type Reader struct {
 	guard *guard
 	cols  []table.Column
 	n     int
+
+	headerLine int
 }
 
 var _ table.Reader = (*Reader)(nil)
@@ -129,6 +131,7 @@ func NewReader(r io.Reader, opt Options) (*Reader, error) {
 	if err != nil {
 		return nil, rd.wrap(err)
 	}
+	rd.headerLine, _ = cr.FieldPos(0)
 	rd.n = len(head)
 	rd.cols = make([]table.Column, len(head))
 	for i, h := range head {
@@ -143,6 +146,9 @@ func NewReader(r io.Reader, opt Options) (*Reader, error) {
 // Columns returns the header's columns (names only; CSV declares no units
 // other than the "[unit]" suffix the importers read from the name).
 func (r *Reader) Columns() []table.Column { return r.cols }
+
+// HeaderRow is the line the header is on (after any comment lines).
+func (r *Reader) HeaderRow() int { return r.headerLine }
 
 // Next returns the next row's fields and the line it starts on. The slice is
 // reused by the next call.

@@ -40,7 +40,7 @@ const (
 	fmtWhole   = "#,##0" // metres, m/s
 	fmtProb    = "0.000" // probabilities and scores
 	fmtShare   = "0.0%"
-	fmtRank    = "0.0"
+	fmtRank    = "General" // a median rank is whole or half
 	fmtGeneral = "General"
 )
 

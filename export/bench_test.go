@@ -1,0 +1,52 @@
+package export
+
+import (
+	"io"
+	"runtime"
+	"testing"
+)
+
+// BenchmarkWorkbook10k writes the review workbook of 10,000 invented targets
+// (15 inputs and 8 drivers each). The goal is at most 5 s and 300 MiB beyond
+// the ranking; b.ReportMetric adds the heap the writer obtained from the
+// system and the bytes it allocated.
+//
+//	go test ./export -run '^$' -bench Workbook10k -benchtime 3x
+func BenchmarkWorkbook10k(b *testing.B) {
+	r := syntheticResult(10_000)
+	info := testInfo(nil)
+	runtime.GC()
+	var before, after runtime.MemStats
+	runtime.ReadMemStats(&before)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if err := WriteWorkbook(io.Discard, r, info); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.StopTimer()
+	runtime.ReadMemStats(&after)
+	b.ReportMetric(float64(after.HeapSys-before.HeapSys)/(1<<20), "MiB-heapsys-growth")
+	b.ReportMetric(float64(after.TotalAlloc-before.TotalAlloc)/float64(b.N)/(1<<20), "MiB-alloc/op")
+}
+
+// BenchmarkCSV10k and BenchmarkJSON10k give the other writers' cost for scale.
+func BenchmarkCSV10k(b *testing.B) {
+	r := syntheticResult(10_000)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if err := WriteCSV(io.Discard, r); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkJSON10k(b *testing.B) {
+	r := syntheticResult(10_000)
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		if err := WriteJSON(io.Discard, r); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -1,0 +1,149 @@
+package main
+
+import (
+	"context"
+	"reflect"
+	"testing"
+)
+
+// Flags → options: each command's flags reach its options, and bad command
+// lines fail with the exact message and exit status 2.
+
+func TestImportFlags(t *testing.T) {
+	cases := []struct {
+		name    string
+		args    []string
+		want    importOptions
+		wantErr string
+	}{
+		{name: "files and note", args: []string{"import", "a.csv", "b.csv", "--note", "first"},
+			want: importOptions{Files: []string{"a.csv", "b.csv"}, Note: "first"}},
+		{name: "all flags", args: []string{"import", "x.json", "--format", "json", "--dry-run", "--skip-invalid", "--max-errors", "5"},
+			want: importOptions{Files: []string{"x.json"}, Format: "json", DryRun: true, SkipInvalid: true, MaxErrors: 5}},
+		{name: "foreign layout", args: []string{"import", "t.xlsx", "--map", "m.toml", "--sheet", "Moons", "--skip-invalid", "--rejects", "r.csv"},
+			want: importOptions{Files: []string{"t.xlsx"}, Map: "m.toml", Sheet: "Moons", SkipInvalid: true, Rejects: "r.csv"}},
+		{name: "votable table", args: []string{"import", "t.vot", "--table", "2"},
+			want: importOptions{Files: []string{"t.vot"}, Table: "2"}},
+		{name: "rejects without skip-invalid", args: []string{"import", "a.csv", "--rejects", "r.csv"},
+			wantErr: "--rejects needs --skip-invalid (without it, a file with a bad row is refused whole)"},
+		{name: "rejects with two files", args: []string{"import", "a.csv", "b.csv", "--skip-invalid", "--rejects", "r.csv"},
+			wantErr: "--rejects takes one FILE to import, not 2; import the files one at a time"},
+		{name: "db from the global flag", args: []string{"--db", "other.db", "import", "a.csv"},
+			want: importOptions{DB: "other.db", Files: []string{"a.csv"}}},
+		{name: "no file", args: []string{"import"}, wantErr: "requires at least 1 arg(s), only received 0"},
+		{name: "bad format", args: []string{"import", "a.csv", "--format", "yaml"},
+			wantErr: `invalid argument "yaml" for "--format" flag: want csv, tsv, json, xlsx or votable`},
+		{name: "negative max errors", args: []string{"import", "a.csv", "--max-errors", "-1"},
+			wantErr: "invalid --max-errors -1: want a count ≥ 1, or 0 for the default"},
+		{name: "unknown flag", args: []string{"import", "a.csv", "--force"}, wantErr: "unknown flag: --force"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			ta := newTestApp(t)
+			var got *importOptions
+			cmd := newImportCmd(ta.app, func(_ context.Context, o *importOptions) error { got = o; return nil })
+			err, code := execute(t, ta.app, cmd, tc.args...)
+			if tc.wantErr != "" {
+				if err == nil || err.Error() != tc.wantErr || code != exitUsage {
+					t.Fatalf("error %v (exit %d), want %q (exit %d)", err, code, tc.wantErr, exitUsage)
+				}
+				return
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			if tc.want.DB == "" {
+				tc.want.DB = "tidesift.db" // the default, no TIDESIFT_DB in the test's environment
+			}
+			got.app = nil
+			if !reflect.DeepEqual(*got, tc.want) {
+				t.Errorf("options\n got %+v\nwant %+v", *got, tc.want)
+			}
+		})
+	}
+}
+
+func TestListShowFlags(t *testing.T) {
+	ta := newTestApp(t)
+	var lo *listOptions
+	cmd := newListCmd(ta.app, func(_ context.Context, o *listOptions) error { lo = o; return nil })
+	if err, _ := execute(t, ta.app, cmd, "list", "-f", "csv", "--planet", "Velmira b", "--star", "Velmira", "--rev", "2"); err != nil {
+		t.Fatal(err)
+	}
+	if lo.Format != "csv" || lo.Planet != "Velmira b" || lo.Star != "Velmira" || lo.Revision != 2 || lo.DB != "tidesift.db" {
+		t.Errorf("list options %+v", *lo)
+	}
+
+	var so *showOptions
+	cmd = newShowCmd(ta.app, func(_ context.Context, o *showOptions) error { so = o; return nil })
+	if err, _ := execute(t, ta.app, cmd, "show", "Ilmeth", "--format", "json", "--planet", "Velmira b"); err != nil {
+		t.Fatal(err)
+	}
+	if so.Name != "Ilmeth" || so.Format != "json" || so.Planet != "Velmira b" {
+		t.Errorf("show options %+v", *so)
+	}
+}
+
+func TestUsageErrors(t *testing.T) {
+	cases := []struct {
+		name    string
+		args    []string
+		wantErr string
+	}{
+		{"show without a name", []string{"show"}, "accepts 1 arg(s), received 0"},
+		{"show with two names", []string{"show", "a", "b"}, "accepts 1 arg(s), received 2"},
+		{"list bad format", []string{"list", "--format", "xml"}, `invalid argument "xml" for "-f, --format" flag: want table, json or csv`},
+		{"list extra argument", []string{"list", "x"}, `unknown command "x" for "tidesift list"`},
+		{"list negative rev", []string{"list", "--rev", "-3"}, "invalid --rev -3: want a revision number ≥ 1, or 0 for the latest"},
+		{"revisions csv", []string{"revisions", "--format", "csv"}, `invalid argument "csv" for "-f, --format" flag: want table or json`},
+		{"unknown command", []string{"rnak"}, `unknown command "rnak" for "tidesift"`},
+	}
+	for _, tc := range cases {
+		t.Run(tc.name, func(t *testing.T) {
+			ta := newTestApp(t)
+			code := runCLI(t, ta, tc.args...)
+			if code != exitUsage {
+				t.Errorf("exit %d, want %d", code, exitUsage)
+			}
+			if got := ta.errOut.String(); !containsLine(got, "tidesift: "+tc.wantErr) {
+				t.Errorf("stderr %q, want a line %q", got, "tidesift: "+tc.wantErr)
+			}
+		})
+	}
+}
+
+func containsLine(s, line string) bool {
+	for len(s) > 0 {
+		i := 0
+		for i < len(s) && s[i] != '\n' {
+			i++
+		}
+		if s[:i] == line {
+			return true
+		}
+		if i == len(s) {
+			break
+		}
+		s = s[i+1:]
+	}
+	return false
+}
+
+func TestDBDefault(t *testing.T) {
+	for _, tc := range []struct {
+		env, want string
+	}{{"", "tidesift.db"}, {"team.db", "team.db"}} {
+		ta := newTestApp(t)
+		ta.env["TIDESIFT_DB"] = tc.env
+		var got *listOptions
+		root := newBareRootCmd(ta.app)
+		root.AddCommand(newListCmd(ta.app, func(_ context.Context, o *listOptions) error { got = o; return nil }))
+		root.SetArgs([]string{"list"})
+		if err := root.Execute(); err != nil {
+			t.Fatal(err)
+		}
+		if got.DB != tc.want {
+			t.Errorf("TIDESIFT_DB=%q: db %q, want %q", tc.env, got.DB, tc.want)
+		}
+	}
+}

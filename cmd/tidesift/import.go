@@ -1,0 +1,233 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"tidesift/importers"
+	"tidesift/store"
+)
+
+type importOptions struct {
+	app         *app
+	DB          string
+	Files       []string
+	Note        string
+	Format      string
+	DryRun      bool
+	SkipInvalid bool
+	Rejects     string // with SkipInvalid: write the rejected rows here as CSV
+	MaxErrors   int
+	Map         string // column map file (TOML)
+	Sheet       string
+	Table       string
+}
+
+func newImportCmd(a *app, runF func(context.Context, *importOptions) error) *cobra.Command {
+	opts := &importOptions{app: a}
+	format := newFormatFlag("", "csv", "tsv", "json", "xlsx", "votable")
+	cmd := &cobra.Command{
+		Use:   "import FILE...",
+		Short: "Import tables of moons into the catalog, one revision per file",
+		Long: `Import one or more files into the catalog. Each file becomes one revision
+(time, file name, SHA-256, --note); a file imported before is a no-op, and a
+file whose values are all in the catalog already makes no revision.
+
+Files are in the canonical table layout: one row per moon, headers 'key [unit]',
+uncertainty companions key_err, key_err_plus/key_err_minus, key_min/key_max,
+key_factor, per-value sources in key_source and a row source in source. See
+README.md for the keys and units.
+
+Every file is read and validated before anything is written. If any file has a
+problem, every problem found is printed with its file, row and column, nothing
+is written, and the exit status is 3.`,
+		Example: `  tidesift import moons.csv --note "values from the 2026 review"
+  tidesift import a.csv b.csv
+  tidesift import update.csv --dry-run`,
+		Args: usageArgs(cobra.MinimumNArgs(1)),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts.DB = a.db
+			opts.Files = args
+			opts.Format = format.value
+			if opts.Rejects != "" && !opts.SkipInvalid {
+				return usageError(cmd, fmt.Errorf("--rejects needs --skip-invalid (without it, a file with a bad row is refused whole)"))
+			}
+			if opts.Rejects != "" && len(args) > 1 {
+				return usageError(cmd, fmt.Errorf("--rejects takes one FILE to import, not %d; import the files one at a time", len(args)))
+			}
+			if opts.MaxErrors < 0 {
+				return usageError(cmd, fmt.Errorf("invalid --max-errors %d: want a count ≥ 1, or 0 for the default", opts.MaxErrors))
+			}
+			if runF != nil {
+				return runF(cmd.Context(), opts)
+			}
+			return runImport(cmd.Context(), opts)
+		},
+	}
+	cmd.Flags().StringVar(&opts.Note, "note", "", "a note kept with each revision")
+	cmd.Flags().Var(format, "format", "file format: csv, tsv, json, xlsx or votable (default: detect)")
+	cmd.Flags().BoolVar(&opts.DryRun, "dry-run", false, "say what would be added, changed and unchanged; write nothing")
+	cmd.Flags().BoolVar(&opts.SkipInvalid, "skip-invalid", false, "import the valid rows and report the rejected ones")
+	cmd.Flags().StringVar(&opts.Rejects, "rejects", "", "with --skip-invalid: write the rejected rows and their reasons to this CSV file")
+	cmd.Flags().IntVar(&opts.MaxErrors, "max-errors", 0, "stop listing problems after this many per file (0: 50)")
+	cmd.Flags().StringVar(&opts.Map, "map", "", "column map (TOML) for a file in a foreign layout")
+	cmd.Flags().StringVar(&opts.Sheet, "sheet", "", "workbook sheet to read (default: the first)")
+	cmd.Flags().StringVar(&opts.Table, "table", "", "VOTable TABLE to read, by name or 1-based index (default: the first)")
+	return cmd
+}
+
+func runImport(ctx context.Context, opts *importOptions) error {
+	ropt := importers.Options{Format: opts.Format, MaxErrors: opts.MaxErrors, SkipInvalid: opts.SkipInvalid,
+		Sheet: opts.Sheet, Table: opts.Table}
+	if opts.Map != "" {
+		m, err := loadMap(opts.Map)
+		if err != nil {
+			return err
+		}
+		ropt.Map = m
+	}
+	results, err := readAll(opts.Files, ropt)
+	if err != nil {
+		return err
+	}
+	st, err := opts.app.openStore(ctx, opts.DB, false)
+	if err != nil {
+		return err
+	}
+	defer st.Close()
+	w := opts.app.Out
+	for _, res := range results {
+		if err := reportRejects(opts, res); err != nil {
+			return err
+		}
+		out, err := st.Import(ctx, store.ImportRequest{
+			File: res.File, SHA256: res.SHA256, Note: opts.Note, Records: res.Records, DryRun: opts.DryRun,
+		})
+		if err != nil {
+			return fmt.Errorf("import %s: %w", res.File, err)
+		}
+		printImport(w, res, out, opts.DryRun)
+	}
+	return nil
+}
+
+// loadMap reads a column map file; its problems are a refusal like a bad
+// file's.
+func loadMap(path string) (*importers.Map, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("column map: %w", err)
+	}
+	defer f.Close()
+	m, err := importers.LoadMap(f)
+	if err != nil {
+		return nil, refusedError(fmt.Errorf("column map %s: %w", path, err))
+	}
+	return m, nil
+}
+
+// reportRejects says which rows --skip-invalid left out: into the --rejects
+// file when given, else on standard error.
+func reportRejects(opts *importOptions, res *importers.Result) error {
+	if len(res.Rejects) == 0 {
+		if opts.Rejects != "" {
+			// An empty report still says that nothing was rejected.
+			return writeRejectsFile(opts.Rejects, res)
+		}
+		return nil
+	}
+	fmt.Fprintf(opts.app.ErrOut, "%s: %s rejected\n", res.File, plural(len(res.Rejects), "row"))
+	if opts.Rejects != "" {
+		if err := writeRejectsFile(opts.Rejects, res); err != nil {
+			return err
+		}
+		fmt.Fprintf(opts.app.ErrOut, "rejected rows and their reasons are in %s\n", opts.Rejects)
+		return nil
+	}
+	for _, r := range res.Rejects {
+		fmt.Fprintf(opts.app.ErrOut, "  row %d: %s\n", r.Row, r.Reason)
+	}
+	return nil
+}
+
+func writeRejectsFile(path string, res *importers.Result) error {
+	f, err := os.Create(path)
+	if err != nil {
+		return fmt.Errorf("rejects report: %w", err)
+	}
+	if err := importers.WriteRejects(f, res.File, res.Rejects); err != nil {
+		f.Close()
+		return fmt.Errorf("rejects report %s: %w", path, err)
+	}
+	return f.Close()
+}
+
+// readAll reads and validates every file before anything is written, so one
+// bad file refuses the whole command. A file that cannot be opened is an
+// ordinary error; a file with invalid content is a refusal (exit status 3)
+// listing every problem found.
+func readAll(files []string, ropt importers.Options) ([]*importers.Result, error) {
+	var results []*importers.Result
+	var problems []string
+	for _, f := range files {
+		res, err := importers.ReadFile(f, ropt)
+		if err != nil {
+			if !isValidation(err) {
+				return nil, fmt.Errorf("import %s: %w", f, err)
+			}
+			problems = append(problems, err.Error())
+			continue
+		}
+		results = append(results, res)
+	}
+	if len(problems) > 0 {
+		return nil, refusedError(fmt.Errorf("import refused, nothing was written:\n%s", strings.Join(problems, "\n")))
+	}
+	return results, nil
+}
+
+// isValidation reports whether err is about a file's content (a refusal)
+// rather than about reading it.
+func isValidation(err error) bool {
+	var list *importers.ErrorList
+	var pe *importers.ParseError
+	return errors.As(err, &list) || errors.As(err, &pe)
+}
+
+func printImport(w io.Writer, res *importers.Result, out *store.ImportResult, dryRun bool) {
+	switch {
+	case out.Duplicate != nil:
+		fmt.Fprintf(w, "%s: unchanged: already imported as revision %d\n", res.File, out.Duplicate.ID)
+		return
+	case dryRun:
+		fmt.Fprintf(w, "%s: dry run, nothing written: would add %d values, change %d, leave %d unchanged; %d new bodies\n",
+			res.File, out.Added, out.Changed, out.Unchanged, out.NewBodies)
+	case out.Revision == nil:
+		fmt.Fprintf(w, "%s: unchanged: all %d values are already in the catalog; no revision made\n", res.File, out.Unchanged)
+		return
+	default:
+		fmt.Fprintf(w, "%s: revision %d: %d rows; %d values added, %d changed, %d unchanged; %d new bodies\n",
+			res.File, out.Revision.ID, len(res.Records), out.Added, out.Changed, out.Unchanged, out.NewBodies)
+	}
+	for _, c := range out.Changes {
+		if c.Old == nil || c.New == nil {
+			continue // additions are counted, not listed
+		}
+		fmt.Fprintf(w, "  changed %s: %s → %s\n", bodyLabel(c), keyedText(c.Key, *c.Old), keyedText(c.Key, *c.New))
+	}
+}
+
+// bodyLabel names the body and key of a change, e.g. "Varkesh (Velmira b) k2_q".
+func bodyLabel(c store.ValueChange) string {
+	s := c.Body
+	if c.Parent != "" {
+		s += " (" + c.Parent + ")"
+	}
+	return s + " " + c.Key
+}

@@ -1,0 +1,2 @@
+ALTER TABLE item ADD COLUMN note TEXT NOT NULL DEFAULT '';
+CREATE INDEX item_name ON item (name);

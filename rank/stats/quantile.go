@@ -1,0 +1,197 @@
+package stats
+
+import (
+	"math"
+	"sort"
+)
+
+// Quantile returns the type-7 p-quantile of sorted (ascending, no NaN), or NaN
+// when it is empty.
+func Quantile(sorted []float64, p float64) float64 {
+	n := len(sorted)
+	if n == 0 {
+		return math.NaN()
+	}
+	h := float64(n-1) * p
+	lo := int(math.Floor(h))
+	if lo < 0 {
+		return sorted[0]
+	}
+	if lo >= n-1 {
+		return sorted[n-1]
+	}
+	return sorted[lo] + (h-float64(lo))*(sorted[lo+1]-sorted[lo])
+}
+
+// Summary holds the quantiles and Monte Carlo standard error Summarize reports.
+type Summary struct {
+	N             int     // finite values summarised
+	P05, P50, P95 float64 // type-7 quantiles
+	MedianSE      float64 // standard error of P50 (McKean & Schrader 1984)
+}
+
+// MedianSEZ is z_{0.995} = Φ⁻¹(0.995), the normal quantile of the
+// McKean–Schrader order-statistic interval.
+const MedianSEZ = 2.5758293035489004
+
+// Summarize returns the 5 %, 50 % and 95 % type-7 quantiles of the finite
+// values of x and the standard error of the median, reordering x in place
+// (NaNs are moved to the end and ignored). It selects the order statistics it
+// needs (Floyd & Rivest 1975) instead of sorting: about three passes over x.
+//
+// The median's standard error is the McKean & Schrader (1984, Commun. Statist.
+// Simul. Comput. 13, 751) estimate (x₍ₙ₋c₊₁₎ − x₍c₎)/(2z) with
+// c = ⌊(n+1)/2 − z√(n/4)⌉ and z = z_{0.995}: the half-width of the
+// distribution-free confidence interval of the median from order statistics,
+// converted to a standard error. It estimates the asymptotic value
+// 1/(2f(m)√n) (f the density at the median) without a density estimate, and is
+// 0 when the median sits on an atom of the distribution (for example a score
+// clamped at 0 in most samples), where the sample median is exact.
+func Summarize(x []float64) Summary {
+	n := 0
+	for _, v := range x {
+		if v == v {
+			x[n] = v
+			n++
+		}
+	}
+	for i := n; i < len(x); i++ {
+		x[i] = math.NaN()
+	}
+	x = x[:n]
+	if n == 0 {
+		return Summary{P05: math.NaN(), P50: math.NaN(), P95: math.NaN(), MedianSE: math.NaN()}
+	}
+	ps := [3]float64{0.05, 0.5, 0.95}
+	var ks [10]int
+	nk := 0
+	add := func(k int) {
+		if k >= 0 && k < n {
+			ks[nk] = k
+			nk++
+		}
+	}
+	for _, p := range ps {
+		lo := int(math.Floor(float64(n-1) * p))
+		add(lo)
+		add(lo + 1)
+	}
+	c := int(math.Round(float64(n+1)/2 - MedianSEZ*math.Sqrt(float64(n)/4)))
+	if c < 1 {
+		c = 1
+	}
+	add(c - 1) // 1-based c → 0-based
+	add(n - c) // 1-based n−c+1
+	k := ks[:nk]
+	sort.Ints(k)
+	k = uniq(k)
+	SelectMany(x, k)
+	q := func(p float64) float64 {
+		h := float64(n-1) * p
+		lo := int(math.Floor(h))
+		if lo >= n-1 {
+			return x[n-1]
+		}
+		return x[lo] + (h-float64(lo))*(x[lo+1]-x[lo])
+	}
+	s := Summary{N: n, P05: q(0.05), P50: q(0.5), P95: q(0.95)}
+	s.MedianSE = (x[n-c] - x[c-1]) / (2 * MedianSEZ)
+	if n < 2 || s.MedianSE < 0 {
+		s.MedianSE = 0
+	}
+	// Interpolation can put p05 a rounding error above p50 when they are equal.
+	s.P05 = math.Min(s.P05, s.P50)
+	s.P95 = math.Max(s.P95, s.P50)
+	return s
+}
+
+func uniq(k []int) []int {
+	out := k[:0]
+	for i, v := range k {
+		if i == 0 || v != k[i-1] {
+			out = append(out, v)
+		}
+	}
+	return out
+}
+
+// SelectMany reorders x so that x[k] holds the value it would hold if x were
+// sorted, for every k in ks (ascending, distinct, in range), with everything
+// between two selected positions lying between their values. x must hold no NaN.
+func SelectMany(x []float64, ks []int) {
+	selectMany(x, 0, len(x)-1, ks)
+}
+
+func selectMany(x []float64, left, right int, ks []int) {
+	if len(ks) == 0 || left > right {
+		return
+	}
+	m := len(ks) / 2
+	k := ks[m]
+	Select(x, left, right, k)
+	selectMany(x, left, k-1, ks[:m])
+	selectMany(x, k+1, right, ks[m+1:])
+}
+
+// Select rearranges x[left..right] (inclusive) so that x[k] is the element
+// that would be there after sorting, smaller or equal elements before it and
+// greater or equal after. It is the SELECT algorithm of Floyd & Rivest (1975,
+// Commun. ACM 18, 173, Algorithm 489): recursive sampling narrows the range so
+// that about n + min(k, n−k) comparisons suffice. x must hold no NaN.
+func Select(x []float64, left, right, k int) {
+	for right > left {
+		if right-left > 600 {
+			n := float64(right - left + 1)
+			i := float64(k - left + 1)
+			z := math.Log(n)
+			s := 0.5 * math.Exp(2*z/3)
+			sd := 0.5 * math.Sqrt(z*s*(n-s)/n)
+			if i < n/2 {
+				sd = -sd
+			}
+			nl := max(left, int(float64(k)-i*s/n+sd))
+			nr := min(right, int(float64(k)+(n-i)*s/n+sd))
+			Select(x, nl, nr, k)
+		}
+		t := x[k]
+		i, j := left, right
+		x[left], x[k] = x[k], x[left]
+		if x[right] > t {
+			x[right], x[left] = x[left], x[right]
+		}
+		for i < j {
+			x[i], x[j] = x[j], x[i]
+			i++
+			j--
+			for x[i] < t {
+				i++
+			}
+			for x[j] > t {
+				j--
+			}
+		}
+		if x[left] == t {
+			x[left], x[j] = x[j], x[left]
+		} else {
+			j++
+			x[j], x[right] = x[right], x[j]
+		}
+		if j <= k {
+			left = j + 1
+		}
+		if k <= j {
+			right = j - 1
+		}
+	}
+}
+
+// BinomialSE is the Monte Carlo standard error √(p(1−p)/n) of a proportion p
+// estimated from n independent samples (the binomial standard deviation of the
+// sample proportion). It is 0 at p = 0 or 1, where it says nothing about how
+// rare the event might still be.
+func BinomialSE(p float64, n int) float64 {
+	if n <= 0 {
+		return math.NaN()
+	}
+	return math.Sqrt(math.Max(0, p*(1-p)) / float64(n))
+}

@@ -82,6 +82,7 @@ type keyPlan struct {
 	factor [nRoles]float64 // to SI, per numeric role
 	unit   string          // unit text of the value column, for messages
 	konst  *schema.Param   // map constant, used where the row gives no value
+	index  int             // position of the key in schema.Keys
 }
 
 func (k *keyPlan) has(r role) bool { return k.col[r] >= 0 }
@@ -180,7 +181,7 @@ func buildPlan(file string, cols []table.Column, m *Map, headerRow int, c *colle
 		kp := byKey[k]
 		if kp == nil {
 			info, _ := schema.LookupKey(k)
-			kp = &keyPlan{info: info}
+			kp = &keyPlan{info: info, index: keyIndex(k)}
 			for r := range kp.col {
 				kp.col[r] = -1
 			}
@@ -360,6 +361,15 @@ func buildPlan(file string, cols []table.Column, m *Map, headerRow int, c *colle
 	}
 	sort.Slice(p.keys, func(i, j int) bool { return p.keys[i].info.Key < p.keys[j].info.Key })
 	return p
+}
+
+func keyIndex(k string) int {
+	for i := range schema.Keys {
+		if schema.Keys[i].Key == k {
+			return i
+		}
+	}
+	panic("importers: key " + k + " is not in schema.Keys")
 }
 
 var fieldNames = [...]string{fieldName: "name", fieldPlanet: "planet", fieldStar: "star", fieldAlias: "alias", fieldSource: "source", fieldIgnore: "ignore"}

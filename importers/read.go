@@ -32,7 +32,7 @@ type bodyState struct {
 	star    string // planets: the star's display name, "" if none given yet
 	starKey string
 	starRow int
-	vals    map[string]bodyVal
+	vals    []bodyVal // by index in schema.Keys; row 0 means unset
 }
 
 // reader holds the state of one Read.
@@ -45,8 +45,14 @@ type reader struct {
 	bodies map[string]*bodyState
 	keybuf []byte
 	params []schema.Param
-	rowErr []error
-	cells  []string
+	kinds  []schema.Kind                          // body kind of each of params
+	kidx   []int                                  // index in schema.Keys of each of params
+	last   [fieldIgnore]struct{ raw, val string } // one-entry intern caches
+
+	bodybuf    []byte
+	lastPlanet *bodyState
+	rowErr     []error
+	cells      []string
 }
 
 func readTable(name string, tr table.Reader, opt Options, res *Result, emit func(*schema.Record) error) error {
@@ -211,19 +217,19 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	if planet == "" {
 		planet = p.constName[fieldPlanet]
 	} else {
-		planet = rd.internName(planet)
+		planet = rd.cached(fieldPlanet, planet, rd.internName)
 	}
 	if planet == "" {
 		rd.fail(row, p.text[fieldPlanet], "planet", "", fmt.Errorf("%w: the planet's name is empty; a moon is known by its name and its planet", ErrMissingName), "")
 	}
 	rec.Planet = planet
 	if s := cell(cells, p.text[fieldStar]); s != "" {
-		rec.Star = rd.internName(s)
+		rec.Star = rd.cached(fieldStar, s, rd.internName)
 	} else {
 		rec.Star = p.constName[fieldStar]
 	}
 	if s := cell(cells, p.text[fieldSource]); s != "" {
-		rec.Source = rd.internText(s)
+		rec.Source = rd.cached(fieldSource, s, rd.internText)
 	} else {
 		rec.Source = p.constName[fieldSource]
 	}
@@ -236,14 +242,16 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	}
 
 	// Numeric keys, in key order.
-	params := rd.params[:0]
+	params, kinds, kidx := rd.params[:0], rd.kinds[:0], rd.kidx[:0]
 	for i := range p.keys {
 		kp := &p.keys[i]
 		if par, ok := rd.param(kp, cells, row); ok {
 			params = append(params, par)
+			kinds = append(kinds, kp.info.Body)
+			kidx = append(kidx, kp.index)
 		}
 	}
-	rd.params = params
+	rd.params, rd.kinds, rd.kidx = params, kinds, kidx
 
 	// Duplicates, then conflicts with earlier rows about the same planet or star.
 	if rec.Name != "" && planet != "" {
@@ -417,16 +425,29 @@ func (rd *reader) failPair(kp *keyPlan, row int, cells []string, a, b role, pres
 	rd.fail(row, kp.col[have], key, cell(cells, kp.col[have]), msg, "")
 }
 
-// planetKey and starKey are the natural keys bodies are tracked under.
-func bodyKey(kind schema.Kind, name string) string {
-	return string(kind) + "\x00" + schema.NameKey(name)
+// body returns the state of a planet or star, nil if not seen yet. The last
+// planet looked up is cached: rows of one planet usually come together.
+func (rd *reader) body(kind schema.Kind, name string, create bool, row int) *bodyState {
+	if kind == schema.KindPlanet && rd.lastPlanet != nil && name == rd.lastPlanet.name {
+		return rd.lastPlanet
+	}
+	rd.bodybuf = appendNameKey(append(rd.bodybuf[:0], kind[0], 0), name)
+	st := rd.bodies[string(rd.bodybuf)]
+	if st == nil && create {
+		st = &bodyState{name: name, row: row}
+		rd.bodies[string(rd.bodybuf)] = st
+	}
+	if kind == schema.KindPlanet && st != nil {
+		rd.lastPlanet = st
+	}
+	return st
 }
 
 // bodyChecks compares this row's planet and star values with earlier rows'.
 func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 	p := rd.p
-	pl := rd.bodies[bodyKey(schema.KindPlanet, rec.Planet)]
-	if pl != nil && rec.Star != "" && pl.star != "" && schema.NameKey(rec.Star) != pl.starKey {
+	pl := rd.body(schema.KindPlanet, rec.Planet, false, row)
+	if pl != nil && rec.Star != "" && pl.star != "" && rec.Star != pl.star && schema.NameKey(rec.Star) != pl.starKey {
 		rd.fail(row, p.text[fieldStar], "star", rec.Star,
 			fmt.Errorf("%w: planet %q has star %q here but star %q on row %d; expected one star per planet", ErrPlanetConflict, rec.Planet, rec.Star, pl.star, pl.starRow), "")
 	}
@@ -437,28 +458,34 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 	if star == "" && pl != nil {
 		star = pl.star
 	}
-	for _, par := range rd.params {
-		info, _ := schema.LookupKey(par.Key)
+	for i, par := range rd.params {
 		var st *bodyState
-		var who string
-		switch info.Body {
+		kind := rd.kinds[i]
+		switch kind {
 		case schema.KindPlanet:
-			st, who = pl, fmt.Sprintf("planet %q", rec.Planet)
+			st = pl
 		case schema.KindStar:
 			if star == "" {
 				rd.fail(row, rd.colOf(par.Key), par.Key, "", fmt.Errorf("%w: %s is a star's value but the row names no star; expected a star column (or [constants] star in a map)", ErrMissingName, par.Key), "")
 				continue
 			}
-			st, who = rd.bodies[bodyKey(schema.KindStar, star)], fmt.Sprintf("star %q", star)
+			st = rd.body(schema.KindStar, star, false, row)
 		default:
 			continue
 		}
 		if st == nil {
 			continue
 		}
-		old, seen := st.vals[par.Key]
-		if !seen || (old.p.Value == par.Value && old.p.Unc == par.Unc) {
+		if st.vals == nil {
 			continue
+		}
+		old := st.vals[rd.kidx[i]]
+		if old.row == 0 || (old.p.Value == par.Value && old.p.Unc == par.Unc) {
+			continue
+		}
+		who := fmt.Sprintf("planet %q", rec.Planet)
+		if kind == schema.KindStar {
+			who = fmt.Sprintf("star %q", star)
 		}
 		ci := rd.colOf(par.Key)
 		rd.fail(row, ci, par.Key, cell(cells, ci),
@@ -469,12 +496,7 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 
 // commitBodies remembers this accepted row's planet and star values.
 func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
-	pk := bodyKey(schema.KindPlanet, rec.Planet)
-	pl := rd.bodies[pk]
-	if pl == nil {
-		pl = &bodyState{name: rec.Planet, row: row}
-		rd.bodies[pk] = pl
-	}
+	pl := rd.body(schema.KindPlanet, rec.Planet, true, row)
 	if rec.Star != "" && pl.star == "" {
 		pl.star, pl.starKey, pl.starRow = rec.Star, schema.NameKey(rec.Star), row
 	}
@@ -485,26 +507,20 @@ func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
 	if star == "" {
 		star = pl.star
 	}
-	for _, par := range rd.params {
-		info, _ := schema.LookupKey(par.Key)
+	for i, par := range rd.params {
 		st := pl
-		switch info.Body {
+		switch rd.kinds[i] {
 		case schema.KindPlanet:
 		case schema.KindStar:
-			sk := bodyKey(schema.KindStar, star)
-			st = rd.bodies[sk]
-			if st == nil {
-				st = &bodyState{name: star, row: row}
-				rd.bodies[sk] = st
-			}
+			st = rd.body(schema.KindStar, star, true, row)
 		default:
 			continue
 		}
 		if st.vals == nil {
-			st.vals = map[string]bodyVal{}
+			st.vals = make([]bodyVal, len(schema.Keys))
 		}
-		if _, seen := st.vals[par.Key]; !seen {
-			st.vals[par.Key] = bodyVal{p: par, row: row, text: rd.describe(par.Key, cells)}
+		if v := &st.vals[rd.kidx[i]]; v.row == 0 {
+			*v = bodyVal{p: par, row: row, text: rd.describe(par.Key, cells)}
 		}
 	}
 }
@@ -548,6 +564,18 @@ func (rd *reader) colOf(key string) int {
 		}
 	}
 	return -1
+}
+
+// cached is intern with a one-entry cache per field: rows of one planet,
+// star or source usually come together.
+func (rd *reader) cached(f field, s string, intern func(string) string) string {
+	c := &rd.last[f]
+	if c.val != "" && s == c.raw {
+		return c.val
+	}
+	v := intern(s)
+	c.raw, c.val = strings.Clone(s), v // a copy: s may pin a whole line
+	return v
 }
 
 // internName normalises a planet or star name and shares one copy per spelling.

@@ -1,6 +1,7 @@
 package physics
 
 import (
+	"encoding/json"
 	"math"
 	"testing"
 )
@@ -58,3 +59,5 @@ func TestClose(t *testing.T) {
 		}
 	}
 }
+
+func jsonMarshal(v any) ([]byte, error) { return json.Marshal(v) }

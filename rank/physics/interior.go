@@ -168,14 +168,28 @@ func SolveThreeLayer(radius, rho, moi, rhoCore, rhoMantle, rhoWater float64) (so
 		x := math.Cbrt(x3)
 		ghi = a + b*x3*x*x - cB
 	}
-	if glo > 0 || ghi < 0 {
+	// Rounding can put a solution that lies on an edge (no core, no mantle,
+	// no water) a hair outside the bracket: accept it within 1e-12 of the
+	// density scale.
+	tol := 1e-12 * (a + b + math.Abs(cB))
+	switch {
+	case glo > tol || ghi < -tol:
 		return bad, false
+	case ghi <= 0:
+		x := 0.0
+		if hi == 1 {
+			x = math.Cbrt(math.Max(0, (cA-a)/b))
+		}
+		return threeLayerSolution(radius, rho, rhoWater, x, hi), true
+	case glo >= 0:
+		return threeLayerSolution(radius, rho, rhoWater, lo, lo), true
 	}
 	y := hi
 	if ghi != glo {
 		y = hi - ghi*(hi-lo)/(ghi-glo)
 	}
 	var x float64
+	prev := math.Inf(1)
 	for range 100 {
 		g, dg, xx := threeLayerResidual(y, a, b, cA, cB)
 		x = xx
@@ -189,21 +203,27 @@ func SolveThreeLayer(radius, rho, moi, rhoCore, rhoMantle, rhoWater float64) (so
 		}
 		step := g / dg
 		next := y - step
-		if math.Abs(step) <= 1e-8 && next >= lo && next <= hi {
-			// Newton converges quadratically: after a step this small the
-			// error is of order 1e-16, far below a millimetre on a moon.
+		as := math.Abs(step)
+		if (as <= 1e-13 || (as <= 1e-8 && as <= 1e-4*prev)) && next >= lo && next <= hi {
+			// Newton converging quadratically (each step much smaller than
+			// the last): after a step this small the error is of order
+			// 1e-16, far below a millimetre on a moon. Near a vanishing
+			// core the convergence is slower, hence the second test.
 			// Move x along the mass curve to first order, dx/dy = −a y²/(b x²),
-			// unless the core is so small that the slope is steep.
-			if x > 1e-3 {
-				x += a * y * y / (b * x * x) * step
+			// when that move is small enough for the second-order term
+			// (relative (dx/x)²) to vanish; otherwise recompute it.
+			if dx := a * y * y / (b * x * x) * step; x > 0 && math.Abs(dx) <= 1e-6*x {
+				x += dx
 			} else {
 				x = math.Cbrt(math.Max(0, (cA-a*next*next*next)/b))
 			}
 			y = next
 			return threeLayerSolution(radius, rho, rhoWater, x, y), true
 		}
+		prev = as
 		if !(next > lo && next < hi) {
 			next = 0.5 * (lo + hi)
+			prev = math.Inf(1)
 		}
 		if hi-lo <= 1e-14 {
 			break

@@ -1,0 +1,616 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"sort"
+	"strings"
+	"time"
+
+	"tidesift/schema"
+)
+
+// ErrAmbiguous is wrapped by Import and History when a name matches several
+// bodies; the message lists the candidates.
+var ErrAmbiguous = errors.New("ambiguous name")
+
+// ErrNotFound is wrapped by History, Snapshot and Diff for a moon or revision
+// that does not exist.
+var ErrNotFound = errors.New("not found")
+
+// Import applies a request in one transaction: all of it or nothing.
+//
+// Bodies are matched by schema.NameKey: a star by name; a planet by name
+// under its star (a record naming no star matches the one planet of that
+// name, whatever its star); a moon by name or alias under its planet. Every
+// name of the record (its name and its aliases) takes part in matching, and a
+// record whose names reach more than one moon is an error listing them. The
+// record's names that differ from the moon's are recorded as aliases.
+//
+// A file with a SHA-256 imported before is a no-op (Duplicate is set). When
+// no value, body or alias is new or different, nothing is written and
+// Revision is nil. A moon may appear once per request; planet and star
+// values repeated on many rows are compared with what the request itself set
+// (the last one wins; Changes lists the value once).
+func (s *Store) Import(ctx context.Context, req ImportRequest) (*ImportResult, error) {
+	if s.readOnly {
+		return nil, fmt.Errorf("import %s: %w", req.File, ErrReadOnly)
+	}
+	sum := strings.ToLower(strings.TrimSpace(req.SHA256))
+	if sum != "" {
+		if b, err := hex.DecodeString(sum); err != nil || len(b) != 32 {
+			return nil, fmt.Errorf("import %s: SHA-256 %q is not 64 hexadecimal digits", req.File, req.SHA256)
+		}
+	}
+	var res *ImportResult
+	err := withRetry(ctx, func() error {
+		var err error
+		res, err = s.importTx(ctx, req, sum)
+		return err
+	})
+	if err != nil {
+		return nil, describe(err)
+	}
+	return res, nil
+}
+
+func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string) (res *ImportResult, err error) {
+	tx, err := s.db.BeginTx(ctx, nil) // BEGIN IMMEDIATE (see writerParams)
+	if err != nil {
+		return nil, err
+	}
+	committed := false
+	defer func() {
+		if !committed {
+			_ = tx.Rollback()
+		}
+	}()
+	if sum != "" {
+		rev, err := scanRevision(tx.QueryRowContext(ctx, "SELECT "+revisionColumns+" FROM revision WHERE sha256 = ?", sum))
+		switch {
+		case err == nil:
+			return &ImportResult{Duplicate: &rev}, nil
+		case !errors.Is(err, sql.ErrNoRows):
+			return nil, err
+		}
+	}
+	now := s.now()
+	r, err := tx.ExecContext(ctx, "INSERT INTO revision (time, file, sha256, note) VALUES (?, ?, ?, ?)",
+		now.Format(time.RFC3339Nano), req.File, sum, req.Note)
+	if err != nil {
+		return nil, fmt.Errorf("create revision: %w", err)
+	}
+	revID, err := r.LastInsertId()
+	if err != nil {
+		return nil, err
+	}
+	im, err := newImporter(ctx, tx, revID, req.OmitChanges)
+	if err != nil {
+		return nil, err
+	}
+	defer im.close()
+	for i := range req.Records {
+		rec := &req.Records[i]
+		if err := im.record(rec); err != nil {
+			return nil, fmt.Errorf("%s: %w", recordPlace(req.File, rec, i), err)
+		}
+	}
+	res = im.result()
+	if res.Added+res.Changed+res.NewBodies+res.NewAliases == 0 {
+		res.Changes = nil
+		return res, nil // the deferred rollback discards the empty revision
+	}
+	res.Revision = &schema.Revision{ID: revID, Time: now, File: req.File, SHA256: sum, Note: req.Note,
+		Changes: res.Added + res.Changed}
+	if _, err := tx.ExecContext(ctx, "UPDATE revision SET changes = ? WHERE id = ?", res.Revision.Changes, revID); err != nil {
+		return nil, err
+	}
+	if req.DryRun {
+		return res, nil
+	}
+	im.close()
+	if err := tx.Commit(); err != nil {
+		return nil, fmt.Errorf("commit: %w", err)
+	}
+	committed = true
+	return res, nil
+}
+
+// recordPlace names a record for an error message: its file and row.
+func recordPlace(file string, rec *schema.Record, i int) string {
+	if rec.File != "" {
+		file = rec.File
+	}
+	row := rec.Row
+	if row == 0 {
+		row = i + 1
+	}
+	if file == "" {
+		return fmt.Sprintf("record %d", row)
+	}
+	return fmt.Sprintf("%s row %d", file, row)
+}
+
+// bodyState is what one import knows of a body.
+type bodyState struct {
+	id     int64
+	kind   schema.Kind
+	name   string // display name
+	parent string // display name of the parent, "" for none
+	isNew  bool   // created by this import
+	// vals holds the current values of a star or planet, loaded on first
+	// use and kept up to date (their rows repeat on many records). Moons
+	// load theirs per record.
+	vals map[string]*curVal
+}
+
+// curVal is a current value as this import sees it.
+type curVal struct {
+	id      int64
+	p       schema.Param  // p.Revision is the revision that set it
+	prev    *schema.Param // the value this import superseded, nil if none
+	prevID  int64
+	change  int  // index in result.Changes, -1 if none or omitted
+	counted bool // counted as Unchanged, or set by this import (then not counted)
+}
+
+type planetKey struct {
+	star int64 // 0: no star
+	key  string
+}
+
+type importer struct {
+	ctx  context.Context
+	tx   *sql.Tx
+	rev  int64
+	omit bool
+	res  ImportResult
+	dead map[int]bool // indexes of Changes undone later in the request
+
+	findBody, findPlanets, matchMoon, insBody, insAlias       *sql.Stmt
+	curVals, insValue, supersede, updValue, delValue, restore *sql.Stmt
+	stmts                                                     []*sql.Stmt
+
+	stars      map[string]*bodyState
+	planets    map[planetKey]*bodyState
+	anyPlanet  map[string]*bodyState // planets looked up without a star
+	planetByID map[int64]*bodyState
+	moonsSeen  map[int64]int // moon id → row that set it
+	moonVals   map[string]*curVal
+}
+
+func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*importer, error) {
+	im := &importer{ctx: ctx, tx: tx, rev: rev, omit: omit, dead: map[int]bool{},
+		stars: map[string]*bodyState{}, planets: map[planetKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
+		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, moonVals: map[string]*curVal{}}
+	prep := []struct {
+		dst **sql.Stmt
+		sql string
+	}{
+		// ifnull(parent_id, 0) matches the body_natural index expression.
+		{&im.findBody, "SELECT id, name FROM body WHERE kind = ? AND ifnull(parent_id, 0) = ? AND name_key = ?"},
+		{&im.findPlanets, `SELECT p.id, p.name, ifnull(p.parent_id, 0), ifnull(s.name, '') FROM body p
+			LEFT JOIN body s ON s.id = p.parent_id WHERE p.kind = 'planet' AND p.name_key = ? ORDER BY p.id`},
+		{&im.matchMoon, `SELECT id, name FROM body WHERE kind = 'moon' AND ifnull(parent_id, 0) = ?1 AND name_key = ?2
+			UNION SELECT b.id, b.name FROM alias a JOIN body b ON b.id = a.body_id
+			WHERE a.name_key = ?2 AND b.kind = 'moon' AND b.parent_id = ?1`},
+		{&im.insBody, "INSERT INTO body (kind, name, name_key, parent_id, created_rev) VALUES (?, ?, ?, ?, ?)"},
+		{&im.insAlias, "INSERT OR IGNORE INTO alias (body_id, name, name_key, rev) VALUES (?, ?, ?, ?)"},
+		{&im.curVals, "SELECT id, " + valueColumns + " FROM value WHERE body_id = ? AND superseded_rev IS NULL"},
+		{&im.insValue, `INSERT INTO value (body_id, key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev)
+			VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`},
+		{&im.supersede, "UPDATE value SET superseded_rev = ? WHERE id = ?"},
+		{&im.updValue, `UPDATE value SET value = ?, unc_kind = ?, sigma = ?, plus = ?, minus = ?, min = ?, max = ?, factor = ?,
+			source = ?, status = ? WHERE id = ?`},
+		{&im.delValue, "DELETE FROM value WHERE id = ?"},
+		{&im.restore, "UPDATE value SET superseded_rev = NULL WHERE id = ?"},
+	}
+	for _, p := range prep {
+		st, err := tx.PrepareContext(ctx, p.sql)
+		if err != nil {
+			im.close()
+			return nil, fmt.Errorf("prepare: %w", err)
+		}
+		*p.dst = st
+		im.stmts = append(im.stmts, st)
+	}
+	return im, nil
+}
+
+func (im *importer) close() {
+	for _, st := range im.stmts {
+		st.Close()
+	}
+	im.stmts = nil
+}
+
+func (im *importer) result() *ImportResult {
+	res := im.res
+	if len(im.dead) > 0 {
+		kept := res.Changes[:0]
+		for i, c := range res.Changes {
+			if !im.dead[i] {
+				kept = append(kept, c)
+			}
+		}
+		res.Changes = kept
+	}
+	return &res
+}
+
+func (im *importer) record(r *schema.Record) error {
+	if schema.NameKey(r.Name) == "" {
+		return errors.New("the moon has no name")
+	}
+	if schema.NameKey(r.Planet) == "" {
+		return fmt.Errorf("moon %q has no planet", r.Name)
+	}
+	var star *bodyState
+	if schema.NameKey(r.Star) != "" {
+		var err error
+		if star, err = im.star(r.Star); err != nil {
+			return err
+		}
+	}
+	planet, err := im.planet(r.Planet, star)
+	if err != nil {
+		return err
+	}
+	moon, err := im.moon(r, planet)
+	if err != nil {
+		return err
+	}
+	for _, p := range r.Params {
+		info, ok := schema.LookupKey(p.Key)
+		if !ok {
+			return fmt.Errorf("%w %q (want one of the keys of the canonical layout)", schema.ErrUnknownKey, p.Key)
+		}
+		var b *bodyState
+		switch info.Body {
+		case schema.KindMoon:
+			b = moon
+		case schema.KindPlanet:
+			b = planet
+		case schema.KindStar:
+			if star == nil {
+				return fmt.Errorf("%s is a value of the star, but the record names no star", p.Key)
+			}
+			b = star
+		}
+		if p.Source == "" {
+			p.Source = r.Source
+		}
+		if p.Status == "" {
+			p.Status = schema.StatusMeasured
+		}
+		if p.Status != schema.StatusMeasured && p.Status != schema.StatusAssumed {
+			return fmt.Errorf("%s: unknown status %q (want %q or %q)", p.Key, p.Status, schema.StatusMeasured, schema.StatusAssumed)
+		}
+		p.Unc = normUnc(p.Unc)
+		p.Revision = im.rev
+		if err := schema.CheckParam(p); err != nil {
+			return err
+		}
+		if err := im.set(b, p); err != nil {
+			return fmt.Errorf("%s: %w", p.Key, err)
+		}
+	}
+	return nil
+}
+
+func (im *importer) star(name string) (*bodyState, error) {
+	key := schema.NameKey(name)
+	if b := im.stars[key]; b != nil {
+		return b, nil
+	}
+	b, err := im.findOrCreate(schema.KindStar, 0, "", name, key)
+	if err != nil {
+		return nil, err
+	}
+	im.stars[key] = b
+	return b, nil
+}
+
+func (im *importer) findOrCreate(kind schema.Kind, parentID int64, parentName, name, key string) (*bodyState, error) {
+	b := &bodyState{kind: kind, parent: parentName}
+	err := im.findBody.QueryRowContext(im.ctx, string(kind), parentID, key).Scan(&b.id, &b.name)
+	if err == nil {
+		return b, nil
+	}
+	if !errors.Is(err, sql.ErrNoRows) {
+		return nil, err
+	}
+	return im.create(kind, parentID, parentName, name, key)
+}
+
+func (im *importer) create(kind schema.Kind, parentID int64, parentName, name, key string) (*bodyState, error) {
+	var parent any
+	if parentID != 0 {
+		parent = parentID
+	}
+	display := strings.Join(strings.Fields(name), " ")
+	r, err := im.insBody.ExecContext(im.ctx, string(kind), display, key, parent, im.rev)
+	if err != nil {
+		return nil, fmt.Errorf("create %s %q: %w", kind, display, err)
+	}
+	id, err := r.LastInsertId()
+	if err != nil {
+		return nil, err
+	}
+	im.res.NewBodies++
+	return &bodyState{id: id, kind: kind, name: display, parent: parentName, isNew: true}, nil
+}
+
+func (im *importer) planet(name string, star *bodyState) (*bodyState, error) {
+	key := schema.NameKey(name)
+	if star != nil {
+		pk := planetKey{star.id, key}
+		if b := im.planets[pk]; b != nil {
+			return b, nil
+		}
+		b, err := im.findOrCreate(schema.KindPlanet, star.id, star.name, name, key)
+		if err != nil {
+			return nil, err
+		}
+		b = im.intern(b)
+		im.planets[pk] = b
+		return b, nil
+	}
+	if b := im.anyPlanet[key]; b != nil {
+		return b, nil
+	}
+	rows, err := im.findPlanets.QueryContext(im.ctx, key)
+	if err != nil {
+		return nil, err
+	}
+	var found []*bodyState
+	for rows.Next() {
+		b := &bodyState{kind: schema.KindPlanet}
+		var starID int64
+		if err := rows.Scan(&b.id, &b.name, &starID, &b.parent); err != nil {
+			rows.Close()
+			return nil, err
+		}
+		found = append(found, b)
+	}
+	rows.Close()
+	if err := rows.Err(); err != nil {
+		return nil, err
+	}
+	var b *bodyState
+	switch len(found) {
+	case 0:
+		if b, err = im.create(schema.KindPlanet, 0, "", name, key); err != nil {
+			return nil, err
+		}
+	case 1:
+		b = found[0]
+	default:
+		var names []string
+		for _, f := range found {
+			if f.parent == "" {
+				names = append(names, fmt.Sprintf("%s (no star)", f.name))
+			} else {
+				names = append(names, fmt.Sprintf("%s (star %s)", f.name, f.parent))
+			}
+		}
+		return nil, fmt.Errorf("%w: planet %q matches %s; give the star", ErrAmbiguous, name, strings.Join(names, ", "))
+	}
+	b = im.intern(b)
+	im.anyPlanet[key] = b
+	return b, nil
+}
+
+// intern returns the one bodyState of a planet, however it was reached, so
+// that its cached values stay consistent.
+func (im *importer) intern(b *bodyState) *bodyState {
+	if have := im.planetByID[b.id]; have != nil {
+		return have
+	}
+	im.planetByID[b.id] = b
+	return b
+}
+
+func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error) {
+	names := append([]string{r.Name}, r.Aliases...)
+	keys := make([]string, 0, len(names))
+	type cand struct {
+		id   int64
+		name string
+	}
+	var cands []cand
+	seen := map[int64]bool{}
+	if !planet.isNew {
+		for _, n := range names {
+			k := schema.NameKey(n)
+			if k == "" {
+				continue
+			}
+			keys = append(keys, k)
+			rows, err := im.matchMoon.QueryContext(im.ctx, planet.id, k)
+			if err != nil {
+				return nil, err
+			}
+			for rows.Next() {
+				var c cand
+				if err := rows.Scan(&c.id, &c.name); err != nil {
+					rows.Close()
+					return nil, err
+				}
+				if !seen[c.id] {
+					seen[c.id] = true
+					cands = append(cands, c)
+				}
+			}
+			rows.Close()
+			if err := rows.Err(); err != nil {
+				return nil, err
+			}
+		}
+	} else {
+		for _, n := range names {
+			if k := schema.NameKey(n); k != "" {
+				keys = append(keys, k)
+			}
+		}
+	}
+	var m *bodyState
+	switch len(cands) {
+	case 0:
+		var err error
+		if m, err = im.create(schema.KindMoon, planet.id, planet.name, r.Name, keys[0]); err != nil {
+			return nil, err
+		}
+	case 1:
+		m = &bodyState{id: cands[0].id, kind: schema.KindMoon, name: cands[0].name, parent: planet.name}
+	default:
+		sort.Slice(cands, func(i, j int) bool { return cands[i].id < cands[j].id })
+		var list []string
+		for _, c := range cands {
+			list = append(list, fmt.Sprintf("%q", c.name))
+		}
+		return nil, fmt.Errorf("%w: moon %q (names %s) matches several moons of planet %q: %s",
+			ErrAmbiguous, r.Name, quoteAll(names), planet.name, strings.Join(list, ", "))
+	}
+	if row, dup := im.moonsSeen[m.id]; dup {
+		return nil, fmt.Errorf("moon %q of planet %q appears twice in one import (first at row %d)", m.name, planet.name, row)
+	}
+	im.moonsSeen[m.id] = r.Row
+	mkey := schema.NameKey(m.name)
+	for _, n := range names {
+		k := schema.NameKey(n)
+		if k == "" || k == mkey {
+			continue
+		}
+		res, err := im.insAlias.ExecContext(im.ctx, m.id, strings.Join(strings.Fields(n), " "), k, im.rev)
+		if err != nil {
+			return nil, fmt.Errorf("record alias %q: %w", n, err)
+		}
+		if n, _ := res.RowsAffected(); n > 0 {
+			im.res.NewAliases++
+		}
+	}
+	// Load the moon's current values for this record.
+	clear(im.moonVals)
+	m.vals = im.moonVals
+	if !m.isNew {
+		if err := im.loadVals(m); err != nil {
+			return nil, err
+		}
+	}
+	return m, nil
+}
+
+func quoteAll(ss []string) string {
+	q := make([]string, len(ss))
+	for i, s := range ss {
+		q[i] = fmt.Sprintf("%q", s)
+	}
+	return strings.Join(q, ", ")
+}
+
+func (im *importer) loadVals(b *bodyState) error {
+	rows, err := im.curVals.QueryContext(im.ctx, b.id)
+	if err != nil {
+		return err
+	}
+	defer rows.Close()
+	for rows.Next() {
+		cv := &curVal{change: -1}
+		p, err := scanParam(rows, &cv.id)
+		if err != nil {
+			return err
+		}
+		cv.p = p
+		b.vals[p.Key] = cv
+	}
+	return rows.Err()
+}
+
+// set applies one value to a body.
+func (im *importer) set(b *bodyState, p schema.Param) error {
+	if b.vals == nil { // a star or planet seen for the first time
+		b.vals = map[string]*curVal{}
+		if !b.isNew {
+			if err := im.loadVals(b); err != nil {
+				return err
+			}
+		}
+	}
+	cv := b.vals[p.Key]
+	switch {
+	case cv == nil:
+		id, err := im.insert(b, p)
+		if err != nil {
+			return err
+		}
+		b.vals[p.Key] = &curVal{id: id, p: p, change: im.addChange(b, nil, p), counted: true}
+		im.res.Added++
+	case sameValue(cv.p, p):
+		if !cv.counted {
+			cv.counted = true
+			im.res.Unchanged++
+		}
+	case cv.p.Revision != im.rev:
+		if _, err := im.supersede.ExecContext(im.ctx, im.rev, cv.id); err != nil {
+			return err
+		}
+		id, err := im.insert(b, p)
+		if err != nil {
+			return err
+		}
+		old := cv.p
+		b.vals[p.Key] = &curVal{id: id, p: p, prev: &old, prevID: cv.id, change: im.addChange(b, &old, p), counted: true}
+		im.res.Changed++
+	case cv.prev != nil && sameValue(*cv.prev, p):
+		// A later row of this request put back the value it started with:
+		// undo the change instead of recording a no-op.
+		if _, err := im.delValue.ExecContext(im.ctx, cv.id); err != nil {
+			return err
+		}
+		if _, err := im.restore.ExecContext(im.ctx, cv.prevID); err != nil {
+			return err
+		}
+		if cv.change >= 0 {
+			im.dead[cv.change] = true
+		}
+		im.res.Changed--
+		im.res.Unchanged++
+		b.vals[p.Key] = &curVal{id: cv.prevID, p: *cv.prev, change: -1, counted: true}
+	default:
+		// Set earlier in this request to something else: the last one wins.
+		u := uncArgs(p.Unc)
+		if _, err := im.updValue.ExecContext(im.ctx, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
+			p.Source, string(p.Status), cv.id); err != nil {
+			return err
+		}
+		cv.p = p
+		if cv.change >= 0 {
+			np := p
+			im.res.Changes[cv.change].New = &np
+		}
+	}
+	return nil
+}
+
+func (im *importer) insert(b *bodyState, p schema.Param) (int64, error) {
+	u := uncArgs(p.Unc)
+	r, err := im.insValue.ExecContext(im.ctx, b.id, p.Key, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
+		p.Source, string(p.Status), im.rev)
+	if err != nil {
+		return 0, err
+	}
+	return r.LastInsertId()
+}
+
+func (im *importer) addChange(b *bodyState, old *schema.Param, p schema.Param) int {
+	if im.omit {
+		return -1
+	}
+	np := p
+	im.res.Changes = append(im.res.Changes, ValueChange{Kind: b.kind, Body: b.name, Parent: b.parent, Key: p.Key, Old: old, New: &np})
+	return len(im.res.Changes) - 1
+}

@@ -1,0 +1,515 @@
+package store
+
+import (
+	"context"
+	"crypto/sha256"
+	"database/sql"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"hash"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"tidesift/schema"
+)
+
+const revisionColumns = "id, time, file, sha256, note, changes"
+
+func scanRevision(sc scanner) (schema.Revision, error) {
+	var r schema.Revision
+	var t string
+	if err := sc.Scan(&r.ID, &t, &r.File, &r.SHA256, &r.Note, &r.Changes); err != nil {
+		return r, err
+	}
+	tm, err := time.Parse(time.RFC3339Nano, t)
+	if err != nil {
+		return r, fmt.Errorf("revision %d: stored time %q: %w", r.ID, t, err)
+	}
+	r.Time = tm
+	return r, nil
+}
+
+// Revisions lists every revision, oldest first.
+func (s *Store) Revisions(ctx context.Context) ([]schema.Revision, error) {
+	var out []schema.Revision
+	err := s.readTx(ctx, func(q queryer) error {
+		out = out[:0]
+		rows, err := q.QueryContext(ctx, "SELECT "+revisionColumns+" FROM revision ORDER BY id")
+		if err != nil {
+			return err
+		}
+		defer rows.Close()
+		for rows.Next() {
+			r, err := scanRevision(rows)
+			if err != nil {
+				return err
+			}
+			out = append(out, r)
+		}
+		return rows.Err()
+	})
+	if err != nil {
+		return nil, fmt.Errorf("list revisions: %w", err)
+	}
+	return out, nil
+}
+
+// resolveRevision returns revision rev, or the latest for 0 (a zero Revision
+// when the catalog has none). An unknown revision is an error naming the
+// valid range.
+func resolveRevision(ctx context.Context, q queryer, rev int64) (schema.Revision, error) {
+	if rev == 0 {
+		r, err := scanRevision(q.QueryRowContext(ctx, "SELECT "+revisionColumns+" FROM revision ORDER BY id DESC LIMIT 1"))
+		if errors.Is(err, sql.ErrNoRows) {
+			return schema.Revision{}, nil
+		}
+		return r, err
+	}
+	r, err := scanRevision(q.QueryRowContext(ctx, "SELECT "+revisionColumns+" FROM revision WHERE id = ?", rev))
+	if !errors.Is(err, sql.ErrNoRows) {
+		return r, err
+	}
+	var lo, hi sql.NullInt64
+	if err := q.QueryRowContext(ctx, "SELECT min(id), max(id) FROM revision").Scan(&lo, &hi); err != nil {
+		return r, err
+	}
+	if !hi.Valid {
+		return r, fmt.Errorf("%w: revision %d: the catalog has no revisions yet", ErrNotFound, rev)
+	}
+	return r, fmt.Errorf("%w: revision %d: valid revisions are %d to %d (0 means the latest)", ErrNotFound, rev, lo.Int64, hi.Int64)
+}
+
+// Snapshot reads the catalog as it was at revision rev (0: the latest). The
+// snapshot is read in one transaction, so a concurrent import is either wholly
+// in it or not at all. Stars are sorted by name, planets by (name, star) and
+// moons by (planet, name, star), comparing schema.NameKey forms.
+func (s *Store) Snapshot(ctx context.Context, rev int64) (*schema.Catalog, error) {
+	var cat *schema.Catalog
+	err := s.readTx(ctx, func(q queryer) error {
+		var err error
+		cat, err = snapshot(ctx, q, rev)
+		return err
+	})
+	if err != nil {
+		return nil, fmt.Errorf("snapshot: %w", err)
+	}
+	return cat, nil
+}
+
+// snapBody is a body with the keys it sorts by.
+type snapBody struct {
+	b              *schema.Body
+	parentID       int64
+	key, parentKey string
+	grandKey       string // star of a moon's planet
+	grand          string
+}
+
+func snapshot(ctx context.Context, q queryer, rev int64) (*schema.Catalog, error) {
+	r, err := resolveRevision(ctx, q, rev)
+	if err != nil {
+		return nil, err
+	}
+	bodies, err := loadBodies(ctx, q, r.ID)
+	if err != nil {
+		return nil, err
+	}
+	// Aliases and values.
+	rows, err := q.QueryContext(ctx, "SELECT body_id, name FROM alias WHERE rev <= ? ORDER BY body_id, name_key", r.ID)
+	if err != nil {
+		return nil, err
+	}
+	for rows.Next() {
+		var id int64
+		var name string
+		if err := rows.Scan(&id, &name); err != nil {
+			rows.Close()
+			return nil, err
+		}
+		if sb := bodies[id]; sb != nil {
+			sb.b.Aliases = append(sb.b.Aliases, name)
+		}
+	}
+	rows.Close()
+	if err := rows.Err(); err != nil {
+		return nil, err
+	}
+	if err := eachValueAt(ctx, q, r.ID, func(id int64, p schema.Param) {
+		if sb := bodies[id]; sb != nil {
+			sb.b.Params[p.Key] = p
+		}
+	}); err != nil {
+		return nil, err
+	}
+	cat := &schema.Catalog{Revision: r, Stars: []schema.Body{}, Planets: []schema.Body{}, Moons: []schema.Body{}}
+	for _, kind := range []schema.Kind{schema.KindStar, schema.KindPlanet, schema.KindMoon} {
+		list := sortedBodies(bodies, kind)
+		for _, sb := range list {
+			switch kind {
+			case schema.KindStar:
+				cat.Stars = append(cat.Stars, *sb.b)
+			case schema.KindPlanet:
+				cat.Planets = append(cat.Planets, *sb.b)
+			default:
+				cat.Moons = append(cat.Moons, *sb.b)
+			}
+		}
+	}
+	cat.ContentHash = contentHash(cat, bodies)
+	return cat, nil
+}
+
+// loadBodies reads the bodies that existed at revision rev, with their
+// parents' names filled in.
+func loadBodies(ctx context.Context, q queryer, rev int64) (map[int64]*snapBody, error) {
+	rows, err := q.QueryContext(ctx, "SELECT id, kind, name, ifnull(parent_id, 0) FROM body WHERE created_rev <= ?", rev)
+	if err != nil {
+		return nil, err
+	}
+	defer rows.Close()
+	bodies := map[int64]*snapBody{}
+	for rows.Next() {
+		b := &schema.Body{Params: map[string]schema.Param{}}
+		sb := &snapBody{b: b}
+		var kind string
+		if err := rows.Scan(&b.ID, &kind, &b.Name, &sb.parentID); err != nil {
+			return nil, err
+		}
+		b.Kind = schema.Kind(kind)
+		sb.key = schema.NameKey(b.Name)
+		bodies[b.ID] = sb
+	}
+	if err := rows.Err(); err != nil {
+		return nil, err
+	}
+	for _, sb := range bodies {
+		if p := bodies[sb.parentID]; p != nil {
+			sb.b.Parent = p.b.Name
+			sb.parentKey = p.key
+			if g := bodies[p.parentID]; g != nil {
+				sb.grand, sb.grandKey = g.b.Name, g.key
+			}
+		}
+	}
+	return bodies, nil
+}
+
+// eachValueAt calls f for every value current at revision rev, without
+// holding them all.
+func eachValueAt(ctx context.Context, q queryer, rev int64, f func(bodyID int64, p schema.Param)) error {
+	rows, err := q.QueryContext(ctx, "SELECT body_id, "+valueColumns+
+		" FROM value WHERE set_rev <= ?1 AND (superseded_rev IS NULL OR superseded_rev > ?1)", rev)
+	if err != nil {
+		return err
+	}
+	defer rows.Close()
+	for rows.Next() {
+		var id int64
+		p, err := scanParam(rows, &id)
+		if err != nil {
+			return err
+		}
+		f(id, p)
+	}
+	return rows.Err()
+}
+
+func sortedBodies(bodies map[int64]*snapBody, kind schema.Kind) []*snapBody {
+	var list []*snapBody
+	for _, sb := range bodies {
+		if sb.b.Kind == kind {
+			list = append(list, sb)
+		}
+	}
+	sort.Slice(list, func(i, j int) bool {
+		a, b := list[i], list[j]
+		if kind == schema.KindMoon {
+			if a.parentKey != b.parentKey {
+				return a.parentKey < b.parentKey
+			}
+			if a.key != b.key {
+				return a.key < b.key
+			}
+			if a.grandKey != b.grandKey {
+				return a.grandKey < b.grandKey
+			}
+			return a.b.ID < b.b.ID
+		}
+		if a.key != b.key {
+			return a.key < b.key
+		}
+		if a.parentKey != b.parentKey {
+			return a.parentKey < b.parentKey
+		}
+		return a.b.ID < b.b.ID
+	})
+	return list
+}
+
+// contentHash is the hex SHA-256 of a canonical serialisation of the
+// snapshot: every body (kind, name, parent, grandparent, aliases) and every
+// value (key, value, uncertainty, source, status), in the snapshot's order.
+// Revision ids, times and row ids are left out, so two catalogs holding the
+// same content hash the same however they were built. Strings are
+// length-prefixed and floats written in their shortest exact form, so the
+// serialisation is unambiguous.
+func contentHash(cat *schema.Catalog, bodies map[int64]*snapBody) string {
+	h := sha256.New()
+	str := func(s string) { fmt.Fprintf(h, "%d:%s;", len(s), s) }
+	num := func(x float64) { h.Write([]byte(strconv.FormatFloat(x, 'g', -1, 64) + ";")) }
+	str("tidesift catalog content v1")
+	for _, list := range [][]schema.Body{cat.Stars, cat.Planets, cat.Moons} {
+		for _, b := range list {
+			writeBody(h, str, num, &b, bodies[b.ID])
+		}
+	}
+	return hex.EncodeToString(h.Sum(nil))
+}
+
+func writeBody(h hash.Hash, str func(string), num func(float64), b *schema.Body, sb *snapBody) {
+	str("body")
+	str(string(b.Kind))
+	str(b.Name)
+	str(b.Parent)
+	if sb != nil {
+		str(sb.grand)
+	}
+	aliases := append([]string(nil), b.Aliases...)
+	sort.Strings(aliases)
+	fmt.Fprintf(h, "aliases %d;", len(aliases))
+	for _, a := range aliases {
+		str(a)
+	}
+	keys := make([]string, 0, len(b.Params))
+	for k := range b.Params {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	fmt.Fprintf(h, "params %d;", len(keys))
+	for _, k := range keys {
+		p := b.Params[k]
+		str(k)
+		num(p.Value)
+		u := normUnc(p.Unc)
+		str(u.Kind.String())
+		for _, x := range []float64{u.Sigma, u.Plus, u.Minus, u.Min, u.Max, u.Factor} {
+			num(x)
+		}
+		str(p.Source)
+		str(string(p.Status))
+	}
+}
+
+// moonRef is a moon found by name, with its planet and star.
+type moonRef struct {
+	id, planetID, starID int64
+	name, planet         string
+}
+
+// findMoon finds a moon by name or alias, optionally under a named planet.
+func findMoon(ctx context.Context, q queryer, moon, planet string) (moonRef, error) {
+	mk, pk := schema.NameKey(moon), schema.NameKey(planet)
+	rows, err := q.QueryContext(ctx, `
+		SELECT DISTINCT m.id, m.name, p.id, p.name, ifnull(p.parent_id, 0)
+		FROM body m JOIN body p ON p.id = m.parent_id
+		LEFT JOIN alias a ON a.body_id = m.id
+		WHERE m.kind = 'moon' AND (m.name_key = ?1 OR a.name_key = ?1) AND (?2 = '' OR p.name_key = ?2)
+		ORDER BY p.name_key, m.name_key, m.id`, mk, pk)
+	if err != nil {
+		return moonRef{}, err
+	}
+	defer rows.Close()
+	var found []moonRef
+	for rows.Next() {
+		var m moonRef
+		if err := rows.Scan(&m.id, &m.name, &m.planetID, &m.planet, &m.starID); err != nil {
+			return moonRef{}, err
+		}
+		found = append(found, m)
+	}
+	if err := rows.Err(); err != nil {
+		return moonRef{}, err
+	}
+	where := ""
+	if pk != "" {
+		where = fmt.Sprintf(" of planet %q", planet)
+	}
+	switch len(found) {
+	case 0:
+		return moonRef{}, fmt.Errorf("%w: no moon %q%s", ErrNotFound, moon, where)
+	case 1:
+		return found[0], nil
+	}
+	var list []string
+	for _, m := range found {
+		list = append(list, fmt.Sprintf("%s (planet %s)", m.name, m.planet))
+	}
+	return moonRef{}, fmt.Errorf("%w: moon %q%s matches %s; give the planet", ErrAmbiguous, moon, where, strings.Join(list, ", "))
+}
+
+// History lists every value a moon's parameters have held, oldest first; key ""
+// means all keys. The moon is matched by name or alias (and planet, when not
+// empty). Keys of the moon's planet and star (planet_mass, star_luminosity, …)
+// give that body's history, and key "" includes them, as Catalog.Inputs
+// does. Entries are ordered by the revision that set them, then by key in the
+// order of schema.Keys.
+func (s *Store) History(ctx context.Context, moon, planet, key string) ([]HistoryEntry, error) {
+	var out []HistoryEntry
+	err := s.readTx(ctx, func(q queryer) error {
+		out = nil
+		m, err := findMoon(ctx, q, moon, planet)
+		if err != nil {
+			return err
+		}
+		ids := []any{m.id, m.planetID, m.starID}
+		keyCond := ""
+		if key != "" {
+			info, ok := schema.LookupKey(key)
+			if !ok {
+				return fmt.Errorf("%w %q", schema.ErrUnknownKey, key)
+			}
+			switch info.Body {
+			case schema.KindPlanet:
+				ids = []any{m.planetID, 0, 0}
+			case schema.KindStar:
+				ids = []any{m.starID, 0, 0}
+			default:
+				ids = []any{m.id, 0, 0}
+			}
+			keyCond = " AND key = ?4"
+		}
+		rows, err := q.QueryContext(ctx, "SELECT ifnull(superseded_rev, 0), "+valueColumns+
+			" FROM value WHERE body_id IN (?1, ?2, ?3) AND body_id <> 0"+keyCond+" ORDER BY set_rev, id",
+			ids[0], ids[1], ids[2], key)
+		if err != nil {
+			return err
+		}
+		defer rows.Close()
+		for rows.Next() {
+			var e HistoryEntry
+			p, err := scanParam(rows, &e.SupersededBy)
+			if err != nil {
+				return err
+			}
+			e.Key, e.Param = p.Key, p
+			out = append(out, e)
+		}
+		return rows.Err()
+	})
+	if err != nil {
+		return nil, fmt.Errorf("history of %s: %w", moon, err)
+	}
+	order := map[string]int{}
+	for i, k := range schema.Keys {
+		order[k.Key] = i
+	}
+	sort.SliceStable(out, func(i, j int) bool {
+		if out[i].Param.Revision != out[j].Param.Revision {
+			return out[i].Param.Revision < out[j].Param.Revision
+		}
+		return order[out[i].Key] < order[out[j].Key]
+	})
+	return out, nil
+}
+
+// Diff lists the values added, removed and changed between revisions a and b
+// (0 meaning the latest): what turns the catalog as of a into the catalog as
+// of b. a may be later than b; the list then says how to go back (values set
+// after b show as removed or changed back). The changes are sorted by body
+// kind (stars, planets, moons), then as Snapshot sorts bodies, then by key in
+// the order of schema.Keys. A body that did not exist at a shows its values
+// as added.
+func (s *Store) Diff(ctx context.Context, a, b int64) ([]ValueChange, error) {
+	var out []ValueChange
+	err := s.readTx(ctx, func(q queryer) error {
+		out = nil
+		ra, err := resolveRevision(ctx, q, a)
+		if err != nil {
+			return err
+		}
+		rb, err := resolveRevision(ctx, q, b)
+		if err != nil {
+			return err
+		}
+		hi := max(ra.ID, rb.ID)
+		bodies, err := loadBodies(ctx, q, hi)
+		if err != nil {
+			return err
+		}
+		type vk struct {
+			body int64
+			key  string
+		}
+		before := map[vk]schema.Param{}
+		if err := eachValueAt(ctx, q, ra.ID, func(id int64, p schema.Param) { before[vk{id, p.Key}] = p }); err != nil {
+			return err
+		}
+		var ids []int64
+		change := func(id int64, key string, old, nw *schema.Param) {
+			sb := bodies[id]
+			if sb == nil {
+				return
+			}
+			ids = append(ids, id)
+			out = append(out, ValueChange{Kind: sb.b.Kind, Body: sb.b.Name, Parent: sb.b.Parent, Key: key, Old: old, New: nw})
+		}
+		if err := eachValueAt(ctx, q, rb.ID, func(id int64, p schema.Param) {
+			k := vk{id, p.Key}
+			old, ok := before[k]
+			delete(before, k)
+			np := p
+			switch {
+			case !ok:
+				change(id, p.Key, nil, &np)
+			case !sameValue(old, p):
+				op := old
+				change(id, p.Key, &op, &np)
+			}
+		}); err != nil {
+			return err
+		}
+		for k, old := range before {
+			op := old
+			change(k.body, k.key, &op, nil)
+		}
+		sortChanges(out, ids, bodies)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("diff %d %d: %w", a, b, err)
+	}
+	return out, nil
+}
+
+func sortChanges(cs []ValueChange, ids []int64, bodies map[int64]*snapBody) {
+	keyOrder := map[string]int{}
+	for i, k := range schema.Keys {
+		keyOrder[k.Key] = i
+	}
+	// Rank bodies as Snapshot orders them: stars, planets, moons.
+	rank := map[int64]int{}
+	for _, kind := range []schema.Kind{schema.KindStar, schema.KindPlanet, schema.KindMoon} {
+		for _, sb := range sortedBodies(bodies, kind) {
+			rank[sb.b.ID] = len(rank)
+		}
+	}
+	idx := make([]int, len(cs))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.Slice(idx, func(i, j int) bool {
+		a, b := idx[i], idx[j]
+		if ra, rb := rank[ids[a]], rank[ids[b]]; ra != rb {
+			return ra < rb
+		}
+		return keyOrder[cs[a].Key] < keyOrder[cs[b].Key]
+	})
+	sorted := make([]ValueChange, len(cs))
+	for i, k := range idx {
+		sorted[i] = cs[k]
+	}
+	copy(cs, sorted)
+}

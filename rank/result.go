@@ -11,15 +11,17 @@ const FormatVersion = 1
 // contract of `tidesift rank --format json` (see DEVELOPERS.md); exporters read a
 // Result and never recompute it.
 type Result struct {
-	FormatVersion   int      `json:"format_version"`
-	CatalogRevision int64    `json:"catalog_revision"`
-	CatalogHash     string   `json:"catalog_hash"` // schema.Catalog.ContentHash
-	Profile         string   `json:"profile"`      // profile name
-	Samples         int      `json:"samples"`
-	Seed            uint64   `json:"seed"`
-	TopK            int      `json:"top_k"` // k of P(rank ≤ k)
-	GOARCH          string   `json:"goarch"`
-	Targets         []Target `json:"targets"` // best first (by median rank, then median score, then name)
+	FormatVersion   int        `json:"format_version"`
+	CatalogRevision int64      `json:"catalog_revision"`
+	CatalogHash     string     `json:"catalog_hash"` // schema.Catalog.ContentHash
+	Profile         string     `json:"profile"`      // profile name
+	Samples         int        `json:"samples"`
+	Seed            uint64     `json:"seed"`
+	TopK            int        `json:"top_k"` // k of P(rank ≤ k)
+	GOARCH          string     `json:"goarch"`
+	Targets         []Target   `json:"targets"`            // best first (by median rank, then median score, then name)
+	Excluded        []Excluded `json:"excluded,omitempty"` // moons not ranked, with the reason
+	Warnings        []string   `json:"warnings,omitempty"` // problems that did not stop the ranking
 
 	// Not part of the JSON document: context for exporters.
 	ProfileTOML string          `json:"-"` // the profile in full, as TOML
@@ -28,20 +30,30 @@ type Result struct {
 
 // Target is one ranked moon.
 type Target struct {
-	Name          string            `json:"name"`
-	Planet        string            `json:"planet"`
-	Star          string            `json:"star"`
-	Rank          float64           `json:"rank"` // median rank over samples (1 = best)
-	RankP05       float64           `json:"rank_p05"`
-	RankP95       float64           `json:"rank_p95"`
-	PTop          PTop              `json:"p_top"`
-	Score         Quantiles         `json:"score"`
-	ScoreMedianSE float64           `json:"score_p50_se"` // Monte Carlo standard error of the score median
-	AssumedInputs []string          `json:"assumed_inputs"`
-	Drivers       []Driver          `json:"drivers"` // largest share first
-	Metrics       Metrics           `json:"metrics"`
-	Inputs        []schema.Param    `json:"-"` // every input used, measured or assumed, for exporters
-	Priors        map[string]string `json:"-"` // key → human description of the prior used for an assumed input
+	Name          string             `json:"name"`
+	Planet        string             `json:"planet"`
+	Star          string             `json:"star"`
+	Rank          float64            `json:"rank"` // median rank over samples (1 = best)
+	RankP05       float64            `json:"rank_p05"`
+	RankP95       float64            `json:"rank_p95"`
+	PTop          PTop               `json:"p_top"`
+	Score         Quantiles          `json:"score"`
+	ScoreMedianSE float64            `json:"score_p50_se"` // Monte Carlo standard error of the score median
+	AssumedInputs []string           `json:"assumed_inputs"`
+	Drivers       []Driver           `json:"drivers"` // largest share first
+	Metrics       Metrics            `json:"metrics"`
+	Flags         map[string]float64 `json:"flags,omitempty"` // physics validity flag → fraction of samples that raised it
+	Notes         []string           `json:"notes,omitempty"` // e.g. a metric the model could not compute in some samples
+	Inputs        []schema.Param     `json:"-"`               // every input used, measured or assumed, for exporters
+	Priors        map[string]string  `json:"-"`               // key → human description of the prior used for an assumed input
+}
+
+// Excluded is a moon left out of the ranking because a required input is
+// missing from the catalog and has no prior in the profile.
+type Excluded struct {
+	Name    string   `json:"name"`
+	Planet  string   `json:"planet"`
+	Missing []string `json:"missing"`
 }
 
 // PTop is the probability that a target ranks in the top K.

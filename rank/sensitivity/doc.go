@@ -13,7 +13,9 @@
 // Borgonovo & Smith (2013, Eur. J. Oper. Res. 226, 536–550, eq. 19), which is
 // Pearson's correlation ratio η² of Y on the classes of Xᵢ. Its bias is of
 // order (M − 1)/n: positive from noise in the class means, negative from
-// averaging E[Y | Xᵢ] within a class; ClassCount balances the two.
+// averaging E[Y | Xᵢ] within a class. The noise part is removed with Kelley's
+// (1935) adjustment of the correlation ratio, so an input that does not matter
+// gets a share near 0 rather than near (M − 1)/n; ClassCount sets M.
 //
 // The engine streams: it fixes class edges from each input distribution's
 // quantiles (Edges), adds (xᵢ, y) pairs to an Accumulator per input as samples

@@ -90,7 +90,18 @@ func (a *Accumulator) Index(meanY, varY float64) float64 {
 	if n == 0 {
 		return 0
 	}
-	return clip(between / float64(n) / varY)
+	return adjusted(between/float64(n)/varY, int(n), len(a.Count))
+}
+
+// adjusted applies Kelley's (1935, PNAS 21, 554) correction of the
+// correlation ratio for its noise bias, ε² = 1 − (1 − η²)(n − 1)/(n − M):
+// with an input that does not matter, η² averages (M − 1)/(n − 1) and ε² 0.
+// The result is clipped to [0, 1].
+func adjusted(eta2 float64, n, m int) float64 {
+	if n <= m {
+		return clip(eta2)
+	}
+	return clip(1 - (1-eta2)*float64(n-1)/float64(n-m))
 }
 
 func clip(s float64) float64 {
@@ -141,5 +152,5 @@ func FirstOrder(x, y []float64, m int) float64 {
 		d := s/float64(hi-lo) - mean
 		between += float64(hi-lo) * d * d
 	}
-	return clip(between / float64(n) / vr)
+	return adjusted(between/float64(n)/vr, n, m)
 }

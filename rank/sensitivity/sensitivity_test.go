@@ -104,3 +104,27 @@ func TestClass(t *testing.T) {
 		}
 	}
 }
+
+// TestIrrelevantInputNearZero: an input independent of y gets ≈ 0 after the
+// noise-bias adjustment (without it, about (M−1)/n).
+func TestIrrelevantInputNearZero(t *testing.T) {
+	const n = 10000
+	r := rand.New(rand.NewPCG(9, 9))
+	x, y := make([]float64, n), make([]float64, n)
+	var mean float64
+	for i := range n {
+		x[i], y[i] = r.Float64(), r.NormFloat64()
+	}
+	m := ClassCount(n)
+	var sum float64
+	for range 20 {
+		for i := range n {
+			y[i] = r.NormFloat64()
+		}
+		sum += FirstOrder(x, y, m)
+	}
+	mean = sum / 20
+	if mean > 0.5*float64(m-1)/n {
+		t.Errorf("mean share of an irrelevant input %g, want ≈ 0 (unadjusted bias %g)", mean, float64(m-1)/n)
+	}
+}

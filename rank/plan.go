@@ -1,0 +1,303 @@
+package rank
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"tidesift/rank/physics"
+	"tidesift/rank/profile"
+	"tidesift/rank/uncertain"
+	"tidesift/schema"
+)
+
+// ErrMissingInputs is returned by Central (and recorded for each excluded
+// target of Run) when a moon lacks a required input that neither the catalog
+// nor the profile's priors supply.
+var ErrMissingInputs = errors.New("missing required inputs")
+
+// slot is one sampled input of a target.
+type slot struct {
+	key     string
+	dist    uncertain.Dist
+	param   schema.Param // as reported in Target.Inputs
+	assumed bool
+}
+
+// role is a physics input; each is filled from at most one slot.
+type role int
+
+const (
+	rMass role = iota
+	rRadius
+	rDensity
+	rSemiMajorAxis
+	rEccentricity
+	rObliquity
+	rPeriod
+	rK2Q
+	rK2
+	rQ
+	rBondAlbedo
+	rSurfaceTemperature
+	rMomentOfInertia
+	rAtmosphereColumn
+	rPlanetMass
+	rStarDistance
+	rStarLuminosity
+	rRockDensity
+	numRoles
+)
+
+var roleKeys = [numRoles]string{
+	"mass", "radius", "density", "semi_major_axis", "eccentricity", "obliquity", "period",
+	"k2_q", "k2", "q", "bond_albedo", "surface_temperature", "moment_of_inertia", "atmosphere_column",
+	"planet_mass", "star_distance", "star_luminosity", profile.RockDensityKey,
+}
+
+// plan says how one target's physics inputs are built from sampled slots.
+type plan struct {
+	slots []slot
+	at    [numRoles]int // slot index of each role, −1 when absent
+	// Derived inputs: mass or radius from the bulk density, k2/Q from k2 and Q.
+	massFromDensity, radiusFromDensity, k2qFromRatio bool
+	missing                                          []string
+}
+
+// source describes where a value for a key can come from.
+type source struct {
+	ok, measured bool
+	param        schema.Param
+	dist         uncertain.Dist
+	prior        string
+}
+
+// buildPlan resolves a moon's inputs: catalog values (measured) first, then
+// the profile's priors (assumed); derived inputs where a direct one is
+// missing. Priors never replace a catalog value.
+func buildPlan(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*plan, error) {
+	in := cat.Inputs(moon)
+	var errs []error
+	lookup := func(key string) source {
+		info, _ := profile.PriorKey(key)
+		if p, ok := in[key]; ok && key != profile.RockDensityKey {
+			d, err := uncertain.NewFromParam(p, info)
+			if err != nil {
+				errs = append(errs, err)
+				d = uncertain.FromParam(p, info)
+			}
+			if p.Status == "" {
+				p.Status = schema.StatusMeasured
+			}
+			return source{ok: true, measured: true, param: p, dist: d}
+		}
+		if pr, ok := prof.Prior(key); ok {
+			_, u := uncertain.Uncertainty(pr.Dist)
+			v := uncertain.Median(pr.Dist)
+			desc := pr.Dist.Describe()
+			return source{ok: true, dist: pr.Dist, prior: desc, param: schema.Param{
+				Key: key, Value: v, Unc: u, Status: schema.StatusAssumed,
+				Source: fmt.Sprintf("assumed: profile %q prior, %s", prof.Name, desc),
+			}}
+		}
+		return source{}
+	}
+	var src [numRoles]source
+	for r := range numRoles {
+		src[r] = lookup(roleKeys[r])
+	}
+	p := &plan{}
+	for i := range p.at {
+		p.at[i] = -1
+	}
+	use := func(r role) {
+		s := src[r]
+		p.at[r] = len(p.slots)
+		p.slots = append(p.slots, slot{key: roleKeys[r], dist: s.dist, param: s.param, assumed: !s.measured})
+	}
+	m, rad, rho := src[rMass], src[rRadius], src[rDensity]
+	switch {
+	case m.measured && rad.measured:
+		use(rMass)
+		use(rRadius)
+	case m.measured && rho.measured:
+		use(rMass)
+		use(rDensity)
+		p.radiusFromDensity = true
+	case rad.measured && rho.measured:
+		use(rRadius)
+		use(rDensity)
+		p.massFromDensity = true
+	case m.ok && rad.ok:
+		use(rMass)
+		use(rRadius)
+	case m.ok && rho.ok:
+		use(rMass)
+		use(rDensity)
+		p.radiusFromDensity = true
+	case rad.ok && rho.ok:
+		use(rRadius)
+		use(rDensity)
+		p.massFromDensity = true
+	default:
+		if !m.ok {
+			p.missing = append(p.missing, "mass (or density with radius)")
+		}
+		if !rad.ok {
+			p.missing = append(p.missing, "radius (or density with mass)")
+		}
+	}
+	kq, k2, q := src[rK2Q], src[rK2], src[rQ]
+	switch {
+	case kq.measured:
+		use(rK2Q)
+	case k2.measured && q.ok || q.measured && k2.ok:
+		use(rK2)
+		use(rQ)
+		p.k2qFromRatio = true
+	case kq.ok:
+		use(rK2Q)
+	case k2.ok && q.ok:
+		use(rK2)
+		use(rQ)
+		p.k2qFromRatio = true
+	default:
+		p.missing = append(p.missing, "k2_q (or k2 and q)")
+	}
+	required := []role{rSemiMajorAxis, rEccentricity, rObliquity, rPlanetMass}
+	optional := []role{rPeriod, rSurfaceTemperature, rMomentOfInertia, rAtmosphereColumn}
+	if src[rSurfaceTemperature].ok {
+		optional = append(optional, rBondAlbedo, rStarDistance, rStarLuminosity)
+	} else {
+		required = append(required, rBondAlbedo, rStarDistance, rStarLuminosity)
+	}
+	if src[rMomentOfInertia].ok {
+		optional = append(optional, rRockDensity)
+	} else {
+		required = append(required, rRockDensity)
+	}
+	for _, r := range required {
+		if src[r].ok {
+			use(r)
+		} else {
+			p.missing = append(p.missing, roleKeys[r])
+		}
+	}
+	for _, r := range optional {
+		if src[r].ok {
+			use(r)
+		}
+	}
+	sort.SliceStable(p.slots, func(i, j int) bool { return keyOrder(p.slots[i].key) < keyOrder(p.slots[j].key) })
+	for i := range p.at {
+		p.at[i] = -1
+	}
+	for i, s := range p.slots {
+		for r := range numRoles {
+			if roleKeys[r] == s.key {
+				p.at[r] = i
+			}
+		}
+	}
+	return p, errors.Join(errs...)
+}
+
+func keyOrder(k string) int {
+	for i, info := range schema.Keys {
+		if info.Key == k {
+			return i
+		}
+	}
+	return len(schema.Keys)
+}
+
+// inputs assembles the physics inputs of sample i from slot-major columns.
+func (p *plan) inputs(cols [][]float64, i int, in *physics.Inputs) {
+	get := func(r role) float64 {
+		if s := p.at[r]; s >= 0 {
+			return cols[s][i]
+		}
+		return math.NaN()
+	}
+	in.Mass = get(rMass)
+	in.Radius = get(rRadius)
+	switch {
+	case p.massFromDensity:
+		r := in.Radius
+		in.Mass = get(rDensity) * (4.0 / 3.0) * math.Pi * r * r * r
+	case p.radiusFromDensity:
+		in.Radius = math.Cbrt(3 * in.Mass / (4 * math.Pi * get(rDensity)))
+	}
+	in.SemiMajorAxis = get(rSemiMajorAxis)
+	in.Eccentricity = get(rEccentricity)
+	in.Obliquity = get(rObliquity)
+	in.Period = get(rPeriod)
+	if p.k2qFromRatio {
+		in.K2Q = physics.K2QFrom(get(rK2), get(rQ))
+	} else {
+		in.K2Q = get(rK2Q)
+	}
+	in.BondAlbedo = get(rBondAlbedo)
+	in.SurfaceTemperature = get(rSurfaceTemperature)
+	in.MomentOfInertia = get(rMomentOfInertia)
+	in.AtmosphereColumn = get(rAtmosphereColumn)
+	in.PlanetMass = get(rPlanetMass)
+	in.StarDistance = get(rStarDistance)
+	in.StarLuminosity = get(rStarLuminosity)
+	in.RockDensity = get(rRockDensity)
+}
+
+// params lists every input used, in key order (for Target.Inputs and Central).
+func (p *plan) params() []schema.Param {
+	out := make([]schema.Param, len(p.slots))
+	for i, s := range p.slots {
+		out[i] = s.param
+	}
+	return out
+}
+
+func (p *plan) assumed() (keys []string, priors map[string]string) {
+	keys = []string{}
+	for _, s := range p.slots {
+		if s.assumed {
+			keys = append(keys, s.key)
+			if priors == nil {
+				priors = map[string]string{}
+			}
+			priors[s.key] = s.dist.Describe()
+		}
+	}
+	return keys, priors
+}
+
+// Central evaluates the model for one moon at its central input values: the
+// catalog value of each measured input and the median of each prior. It
+// returns the derived quantities and every input used (assumed ones with
+// Status schema.StatusAssumed and the prior in Source). A moon lacking a
+// required input gets an error wrapping ErrMissingInputs, with the inputs
+// that could be resolved.
+func Central(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*physics.Derived, []schema.Param, error) {
+	p, err := buildPlan(cat, moon, prof)
+	if err != nil {
+		return nil, nil, fmt.Errorf("%s: %w", moon.Name, err)
+	}
+	params := p.params()
+	if len(p.missing) > 0 {
+		return nil, params, fmt.Errorf("%s: %w: %s (give them in the catalog or as profile priors)", moon.Name, ErrMissingInputs, strings.Join(p.missing, ", "))
+	}
+	cols := make([][]float64, len(p.slots))
+	for i, s := range p.slots {
+		v := s.param.Value
+		if s.assumed {
+			v = uncertain.Median(s.dist)
+		}
+		cols[i] = []float64{v}
+	}
+	var in physics.Inputs
+	p.inputs(cols, 0, &in)
+	d := new(physics.Derived)
+	physics.Evaluate(in, prof.Model, d)
+	return d, params, nil
+}

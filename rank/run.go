@@ -1,0 +1,475 @@
+package rank
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"hash/fnv"
+	"math"
+	"math/bits"
+	"math/rand/v2"
+	"runtime"
+	"sort"
+	"strings"
+	"sync"
+	"sync/atomic"
+
+	"tidesift/rank/physics"
+	"tidesift/rank/profile"
+	"tidesift/rank/sensitivity"
+	"tidesift/rank/stats"
+	"tidesift/schema"
+)
+
+// DefaultSamples is the Monte Carlo sample count when Options.Samples is 0.
+const DefaultSamples = 10000
+
+// ChunkSize is the number of samples drawn from one generator stream. It is
+// part of the reproducibility contract: changing it changes every result.
+const ChunkSize = 1024
+
+// MaxCells bounds targets × samples (the float32 score matrix, 4 bytes a cell).
+const MaxCells = 1 << 30
+
+// Options adjust Run. The zero value gives the defaults.
+type Options struct {
+	Samples  int    // Monte Carlo samples per target; 0: DefaultSamples
+	Seed     uint64 // generator seed; 0: 1
+	Workers  int    // goroutines; 0: runtime.GOMAXPROCS(0). Results do not depend on it.
+	TopK     int    // k of P(rank ≤ k); 0: the profile's top_k
+	Filter   Filter
+	Progress func(done, total int) // called after each target is sampled, never concurrently; may be nil
+}
+
+// Filter selects the moons to rank; empty lists select all. Names match as
+// schema.NameKey does (case and spacing ignored).
+type Filter struct {
+	Planets []string
+	Stars   []string
+}
+
+func (f Filter) match(planet, star string) bool {
+	in := func(list []string, name string) bool {
+		if len(list) == 0 {
+			return true
+		}
+		k := schema.NameKey(name)
+		for _, s := range list {
+			if schema.NameKey(s) == k {
+				return true
+			}
+		}
+		return false
+	}
+	return in(f.Planets, planet) && in(f.Stars, star)
+}
+
+// target is one moon being ranked.
+type target struct {
+	moon *schema.Body
+	plan *plan
+	star string
+	hash uint64
+	out  *Target
+}
+
+// Run ranks the catalog's moons under prof by Monte Carlo: for each moon it
+// draws Samples joint samples of its uncertain inputs, evaluates the physics
+// and the profile's score in each, summarises the metrics and the score, and
+// then ranks all targets sample by sample to give rank statistics. See
+// MethodText for the method and DEVELOPERS.md for the JSON contract.
+//
+// A moon lacking a required input that the profile has no prior for is left
+// out and listed in Result.Excluded (with a warning): a score computed without
+// it would mean nothing. The same catalog revision, profile, seed and sample
+// count give byte-identical results for any Workers.
+func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Options) (*Result, error) {
+	if cat == nil || prof == nil {
+		return nil, errors.New("rank: nil catalog or profile")
+	}
+	if opt.Samples < 0 || opt.Workers < 0 || opt.TopK < 0 {
+		return nil, fmt.Errorf("rank: negative samples (%d), workers (%d) or top k (%d)", opt.Samples, opt.Workers, opt.TopK)
+	}
+	S := opt.Samples
+	if S == 0 {
+		S = DefaultSamples
+	}
+	seed := opt.Seed
+	if seed == 0 {
+		seed = 1
+	}
+	k := opt.TopK
+	if k == 0 {
+		k = prof.TopK
+	}
+	res := &Result{
+		FormatVersion:   FormatVersion,
+		CatalogRevision: cat.Revision.ID,
+		CatalogHash:     cat.ContentHash,
+		Profile:         prof.Name,
+		Samples:         S,
+		Seed:            seed,
+		TopK:            k,
+		GOARCH:          runtime.GOARCH,
+		Targets:         []Target{},
+		ProfileTOML:     prof.TOML(),
+		Revision:        cat.Revision,
+	}
+	var ts []target
+	for i := range cat.Moons {
+		m := &cat.Moons[i]
+		if !opt.Filter.match(m.Parent, cat.StarOf(m)) {
+			continue
+		}
+		p, err := buildPlan(cat, m, prof)
+		if err != nil {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%s (%s): %v; used as a fixed value", m.Name, m.Parent, err))
+		}
+		if len(p.missing) > 0 {
+			res.Excluded = append(res.Excluded, Excluded{Name: m.Name, Planet: m.Parent, Missing: p.missing})
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%s (%s) not ranked: %v: %s (give them in the catalog or as profile priors)",
+				m.Name, m.Parent, ErrMissingInputs, strings.Join(p.missing, ", ")))
+			continue
+		}
+		h := fnv.New64a()
+		h.Write([]byte(schema.NameKey(m.Parent) + "\x00" + schema.NameKey(m.Name)))
+		ts = append(ts, target{moon: m, plan: p, star: cat.StarOf(m), hash: h.Sum64()})
+	}
+	N := len(ts)
+	if N == 0 {
+		return res, nil
+	}
+	if int64(N)*int64(S) > MaxCells {
+		return nil, fmt.Errorf("rank: %d targets × %d samples exceeds the limit of %d (the score matrix would need %.1f GiB); use fewer samples or a filter",
+			N, S, MaxCells, float64(N)*float64(S)*4/(1<<30))
+	}
+	res.Targets = make([]Target, N)
+	for i := range ts {
+		ts[i].out = &res.Targets[i]
+	}
+	workers := opt.Workers
+	if workers == 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = max(1, min(workers, N))
+
+	// Phase 1: sample every target; keep only its composite scores.
+	mat := make([]float32, N*S)
+	var next, done atomic.Int64
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			w := newWorker(S, prof)
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= N || ctx.Err() != nil {
+					return
+				}
+				w.run(&ts[i], seed, mat[i*S:(i+1)*S])
+				d := int(done.Add(1))
+				if opt.Progress != nil {
+					mu.Lock()
+					opt.Progress(d, N)
+					mu.Unlock()
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+
+	// Phase 2: rank all targets in every sample, in place.
+	rankSamples(mat, N, S, workers)
+
+	// Phase 3: rank statistics per target.
+	next.Store(0)
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			counts := make([]int32, N+1)
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= N {
+					return
+				}
+				t := ts[i].out
+				p05, p50, p95, top := stats.RankStats(mat[i*S:(i+1)*S], N, k, counts)
+				t.Rank, t.RankP05, t.RankP95 = p50, p05, p95
+				t.PTop = PTop{K: k, P: float64(top) / float64(S)}
+			}
+		}()
+	}
+	wg.Wait()
+
+	sort.SliceStable(res.Targets, func(i, j int) bool {
+		a, b := &res.Targets[i], &res.Targets[j]
+		if a.Rank != b.Rank {
+			return a.Rank < b.Rank
+		}
+		if a.Score.P50 != b.Score.P50 {
+			return a.Score.P50 > b.Score.P50
+		}
+		if ka, kb := schema.NameKey(a.Name), schema.NameKey(b.Name); ka != kb {
+			return ka < kb
+		}
+		return schema.NameKey(a.Planet) < schema.NameKey(b.Planet)
+	})
+	return res, nil
+}
+
+// rankBlock is the number of samples ranked together: their scores are
+// gathered from every target's row into a tile, ranked column by column and
+// written back, so the matrix is read and written in 256-byte runs.
+const rankBlock = 64
+
+func rankSamples(mat []float32, N, S, workers int) {
+	blocks := (S + rankBlock - 1) / rankBlock
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(workers, blocks) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			tile := make([]float32, N*rankBlock)
+			col := make([]float32, N)
+			rk := make([]float32, N)
+			var r stats.Ranker
+			for {
+				b := int(next.Add(1) - 1)
+				if b >= blocks {
+					return
+				}
+				j0 := b * rankBlock
+				w := min(rankBlock, S-j0)
+				for t := range N {
+					copy(tile[t*w:(t+1)*w], mat[t*S+j0:t*S+j0+w])
+				}
+				for c := range w {
+					for t := range N {
+						col[t] = tile[t*w+c]
+					}
+					r.Ranks(col, rk)
+					for t := range N {
+						tile[t*w+c] = rk[t]
+					}
+				}
+				for t := range N {
+					copy(mat[t*S+j0:t*S+j0+w], tile[t*w:(t+1)*w])
+				}
+			}
+		}()
+	}
+	wg.Wait()
+}
+
+// splitmix64 is the output function of Steele, Lea & Flood's SplitMix64
+// (OOPSLA 2014), used to decorrelate generator seeds.
+func splitmix64(x uint64) uint64 {
+	x += 0x9e3779b97f4a7c15
+	x = (x ^ (x >> 30)) * 0xbf58476d1ce4e5b9
+	x = (x ^ (x >> 27)) * 0x94d049bb133111eb
+	return x ^ (x >> 31)
+}
+
+// streamSeed returns the PCG seed of one (target, chunk) stream. The target
+// enters by the hash of its (planet, name) key rather than its position, so a
+// moon's samples do not change when other moons are added or filtered out.
+func streamSeed(seed, target uint64, chunk int) (uint64, uint64) {
+	x := splitmix64(seed)
+	x = splitmix64(x ^ target)
+	x = splitmix64(x ^ uint64(chunk))
+	return x, splitmix64(x ^ 0xda942042e4dd58b5)
+}
+
+// Contract metrics with per-sample buffers.
+const (
+	mTidalPower = iota
+	mRadiogenicPower
+	mHeatFlux
+	mTidalForce
+	mSurfaceTemperature
+	mEscapeVelocity
+	mWaterLayer
+	mIceShell
+	numBuffered
+)
+
+var bufferedNames = [numBuffered]string{
+	"tidal_power_w", "radiogenic_power_w", "heat_flux_w_m2", "tidal_force_n",
+	"surface_temperature_k", "escape_velocity_m_s", "water_layer_thickness_m", "ice_shell_thickness_m",
+}
+
+// worker holds one goroutine's buffers, reused from target to target, so the
+// sample loop allocates nothing.
+type worker struct {
+	S       int
+	prof    *profile.Profile
+	src     rand.PCG
+	rng     *rand.Rand
+	cols    [][]float64
+	metric  [numBuffered][]float64
+	score   []float64
+	acc     []*sensitivity.Accumulator
+	classes int
+	d       physics.Derived
+	in      physics.Inputs
+}
+
+func newWorker(S int, prof *profile.Profile) *worker {
+	w := &worker{S: S, prof: prof, score: make([]float64, S), classes: sensitivity.ClassCount(S)}
+	w.rng = rand.New(&w.src)
+	for m := range w.metric {
+		w.metric[m] = make([]float64, S)
+	}
+	return w
+}
+
+func (w *worker) run(t *target, seed uint64, row []float32) {
+	p := t.plan
+	S := w.S
+	for len(w.cols) < len(p.slots) {
+		w.cols = append(w.cols, make([]float64, ChunkSize))
+		w.acc = append(w.acc, sensitivity.NewAccumulator(nil))
+	}
+	// Sensitivity classes from each uncertain input's own quantiles.
+	var uncertainSlots []int
+	for s, sl := range p.slots {
+		if !sl.dist.Fixed() {
+			uncertainSlots = append(uncertainSlots, s)
+			w.acc[s].Reset(sensitivity.Edges(sl.dist.Quantile, w.classes))
+		}
+	}
+	var ocean int
+	var retained [physics.NumVolatiles]int
+	var flagCount [32]int
+	var scoreNaN int
+	for c := 0; c*ChunkSize < S; c++ {
+		g0 := c * ChunkSize
+		n := min(ChunkSize, S-g0)
+		w.src.Seed(streamSeed(seed, t.hash, c))
+		for s, sl := range p.slots {
+			sl.dist.Fill(w.rng, w.cols[s][:n])
+		}
+		for i := range n {
+			g := g0 + i
+			p.inputs(w.cols, i, &w.in)
+			physics.Evaluate(w.in, w.prof.Model, &w.d)
+			d := &w.d
+			w.metric[mTidalPower][g] = d.TidalPower
+			w.metric[mRadiogenicPower][g] = d.RadiogenicPower
+			w.metric[mHeatFlux][g] = d.HeatFlux
+			w.metric[mTidalForce][g] = d.TidalForce
+			w.metric[mSurfaceTemperature][g] = d.SurfaceTemperature
+			w.metric[mEscapeVelocity][g] = d.EscapeVelocity
+			w.metric[mWaterLayer][g] = d.WaterLayerThickness
+			w.metric[mIceShell][g] = d.IceShellThickness
+			if d.OceanQualifies {
+				ocean++
+			}
+			for v := range physics.NumVolatiles {
+				if d.Retained[v] {
+					retained[v]++
+				}
+			}
+			for f := d.Flags; f != 0; f &= f - 1 {
+				flagCount[bits.TrailingZeros32(uint32(f))]++
+			}
+			sc := w.prof.Score(d)
+			if math.IsNaN(sc) {
+				sc = 0
+				scoreNaN++
+			}
+			w.score[g] = sc
+			row[g] = float32(sc)
+		}
+		for _, s := range uncertainSlots {
+			a, xs, ys := w.acc[s], w.cols[s][:n], w.score[g0:g0+n]
+			for i, x := range xs {
+				a.Add(x, ys[i])
+			}
+		}
+	}
+
+	out := t.out
+	out.Name, out.Planet, out.Star = t.moon.Name, t.moon.Parent, t.star
+	out.Inputs = p.params()
+	out.AssumedInputs, out.Priors = p.assumed()
+
+	// Drivers, from the score's mean and variance over all samples.
+	var mean, vr float64
+	for _, y := range w.score {
+		mean += y
+	}
+	mean /= float64(S)
+	for _, y := range w.score {
+		vr += (y - mean) * (y - mean)
+	}
+	vr /= float64(S)
+	if vr < 1e-24 { // round-off only: no uncertainty to apportion
+		vr = 0
+	}
+	out.Drivers = make([]Driver, 0, len(uncertainSlots))
+	for _, s := range uncertainSlots {
+		out.Drivers = append(out.Drivers, Driver{Input: p.slots[s].key, Share: w.acc[s].Index(mean, vr)})
+	}
+	sort.SliceStable(out.Drivers, func(i, j int) bool {
+		if out.Drivers[i].Share != out.Drivers[j].Share {
+			return out.Drivers[i].Share > out.Drivers[j].Share
+		}
+		return out.Drivers[i].Input < out.Drivers[j].Input
+	})
+
+	sum := stats.Summarize(w.score)
+	out.Score = Quantiles{P05: sum.P05, P50: sum.P50, P95: sum.P95}
+	out.ScoreMedianSE = sum.MedianSE
+
+	var notes []string
+	q := func(m int) Quantiles {
+		s := stats.Summarize(w.metric[m])
+		if s.N < S {
+			notes = append(notes, fmt.Sprintf("%s: not computable in %s of samples", bufferedNames[m], percent(S-s.N, S)))
+		}
+		if s.N == 0 {
+			return Quantiles{}
+		}
+		return Quantiles{P05: s.P05, P50: s.P50, P95: s.P95}
+	}
+	mt := &out.Metrics
+	mt.TidalPower = q(mTidalPower)
+	mt.RadiogenicPower = q(mRadiogenicPower)
+	mt.HeatFlux = q(mHeatFlux)
+	mt.TidalForce = q(mTidalForce)
+	mt.SurfaceTemperature = q(mSurfaceTemperature)
+	mt.EscapeVelocity = q(mEscapeVelocity)
+	mt.WaterLayerThickness = q(mWaterLayer)
+	mt.IceShellThickness = q(mIceShell)
+	mt.OceanProbability = float64(ocean) / float64(S)
+	mt.OceanProbabilitySE = stats.BinomialSE(mt.OceanProbability, S)
+	mt.Retention = make(map[string]float64, physics.NumVolatiles)
+	for v, vol := range physics.Volatiles {
+		mt.Retention[vol.Formula] = float64(retained[v]) / float64(S)
+	}
+	if scoreNaN > 0 {
+		notes = append(notes, fmt.Sprintf("score: not computable in %s of samples (counted as 0)", percent(scoreNaN, S)))
+	}
+	out.Notes = notes
+	out.Flags = nil
+	for b, c := range flagCount {
+		if c > 0 {
+			if out.Flags == nil {
+				out.Flags = map[string]float64{}
+			}
+			out.Flags[physics.Flag(1<<b).String()] = float64(c) / float64(S)
+		}
+	}
+}
+
+func percent(n, of int) string {
+	return fmt.Sprintf("%.3g%%", 100*float64(n)/float64(of))
+}

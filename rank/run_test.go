@@ -295,17 +295,17 @@ func TestIo(t *testing.T) {
 	cat := &schema.Catalog{
 		Stars: []schema.Body{body(schema.KindStar, "Sun", "", fixed("star_luminosity", lsunW))}, // IAU 2015 B3 nominal
 		Planets: []schema.Body{body(schema.KindPlanet, "Jupiter", "Sun",
-			fixed("planet_mass", 1.89819e27),    // NASA Jupiter fact sheet (Williams 2021)
+			fixed("planet_mass", 1.89819e27),     // NASA Jupiter fact sheet (Williams 2021)
 			fixed("star_distance", 5.2038*auM))}, // NASA Jupiter fact sheet, semi-major axis
 		Moons: []schema.Body{body(schema.KindMoon, "Io", "Jupiter",
-			sig("mass", 8.9319e22, 1e16),                 // NASA Jovian satellite fact sheet
-			sig("radius", 1821.6*kmM, 1e-3),              // NASA Jovian satellite fact sheet
-			sig("semi_major_axis", 421800*kmM, 1e-2),     // NASA Jovian satellite fact sheet
-			sig("eccentricity", 0.0041, 1e-9),            // as used with k2/Q by Lainey et al. 2009
-			fixed("obliquity", 0),                        // synchronous, negligible obliquity (common practice)
-			sig("period", 1.769138*dayS, 1e-6),           // NASA Jovian satellite fact sheet
-			sig("k2_q", 0.015, 1e-9),                     // Lainey et al. 2009, Nature 459, 957
-			fixed("bond_albedo", 0.63))},                 // from memory; does not enter the tidal power
+			sig("mass", 8.9319e22, 1e16),             // NASA Jovian satellite fact sheet
+			sig("radius", 1821.6*kmM, 1e-3),          // NASA Jovian satellite fact sheet
+			sig("semi_major_axis", 421800*kmM, 1e-2), // NASA Jovian satellite fact sheet
+			sig("eccentricity", 0.0041, 1e-9),        // as used with k2/Q by Lainey et al. 2009
+			fixed("obliquity", 0),                    // synchronous, negligible obliquity (common practice)
+			sig("period", 1.769138*dayS, 1e-6),       // NASA Jovian satellite fact sheet
+			sig("k2_q", 0.015, 1e-9),                 // Lainey et al. 2009, Nature 459, 957
+			fixed("bond_albedo", 0.63))},             // from memory; does not enter the tidal power
 	}
 	prof := mustProfile(t, "tidal")
 	res := mustRun(t, cat, prof, Options{Samples: 500})

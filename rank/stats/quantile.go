@@ -36,7 +36,7 @@ const MedianSEZ = 2.5758293035489004
 
 // Summarize returns the 5 %, 50 % and 95 % type-7 quantiles of the finite
 // values of x and the standard error of the median, reordering x in place
-// (NaNs are moved to the end and ignored). It selects the order statistics it
+// (NaN and ±Inf are ignored; x[N:] is left holding NaN). It selects the order statistics it
 // needs (Floyd & Rivest 1975) instead of sorting: about three passes over x.
 //
 // The median's standard error is the McKean & Schrader (1984, Commun. Statist.
@@ -50,7 +50,7 @@ const MedianSEZ = 2.5758293035489004
 func Summarize(x []float64) Summary {
 	n := 0
 	for _, v := range x {
-		if v == v {
+		if !math.IsNaN(v) && !math.IsInf(v, 0) {
 			x[n] = v
 			n++
 		}

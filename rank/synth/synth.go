@@ -40,7 +40,9 @@ func param(key string, v float64, u schema.Uncertainty) schema.Param {
 	return schema.Param{Key: key, Value: v, Unc: u, Source: Source, Status: schema.StatusMeasured, Revision: 1}
 }
 
-func sym(s float64) schema.Uncertainty { return schema.Uncertainty{Kind: schema.UncSymmetric, Sigma: s} }
+func sym(s float64) schema.Uncertainty {
+	return schema.Uncertainty{Kind: schema.UncSymmetric, Sigma: s}
+}
 
 // Catalog returns an invented catalog of n moons: ten to a planet, four
 // planets to a star. About a third of the moons lack k2/Q (a profile prior

@@ -217,32 +217,45 @@ const NumVolatiles = 10
 
 var nan = math.NaN()
 
+// invSqrtMolarMass holds 1/√M of each volatile (M in kg/mol), so that
+// Evaluate's loop over volatiles needs no square root.
+var invSqrtMolarMass = func() (r [NumVolatiles]float64) {
+	for j, v := range Volatiles {
+		r[j] = 1 / math.Sqrt(v.MolarMass)
+	}
+	return r
+}()
+
 // sanitize replaces inputs that are ±Inf or outside their physical domain by
 // NaN (missing) and reports whether it did.
 func sanitize(in *Inputs) bool {
-	bad := false
-	chk := func(v *float64, ok bool) {
-		if !math.IsNaN(*v) && (!ok || math.IsInf(*v, 0)) {
-			*v = nan
-			bad = true
-		}
+	n := fix(&in.Mass, in.Mass > 0) +
+		fix(&in.Radius, in.Radius > 0) +
+		fix(&in.SemiMajorAxis, in.SemiMajorAxis > 0) +
+		fix(&in.Eccentricity, in.Eccentricity >= 0 && in.Eccentricity < 1) +
+		fix(&in.Obliquity, true) +
+		fix(&in.Period, in.Period > 0) +
+		fix(&in.K2Q, in.K2Q >= 0) +
+		fix(&in.BondAlbedo, in.BondAlbedo >= 0 && in.BondAlbedo <= 1) +
+		fix(&in.SurfaceTemperature, in.SurfaceTemperature > 0) +
+		fix(&in.MomentOfInertia, in.MomentOfInertia > 0 && in.MomentOfInertia <= 2.0/3.0) +
+		fix(&in.AtmosphereColumn, in.AtmosphereColumn >= 0) +
+		fix(&in.PlanetMass, in.PlanetMass > 0) +
+		fix(&in.StarDistance, in.StarDistance > 0) +
+		fix(&in.StarLuminosity, in.StarLuminosity >= 0) +
+		fix(&in.RockDensity, in.RockDensity > 0)
+	return n > 0
+}
+
+// fix sets *v to NaN and returns 1 when *v is not NaN but is infinite or not
+// inDomain; a NaN (missing) input is left alone.
+func fix(v *float64, inDomain bool) int {
+	x := *v
+	if x != x || (inDomain && x-x == 0) { // NaN; or finite and in its domain
+		return 0
 	}
-	chk(&in.Mass, in.Mass > 0)
-	chk(&in.Radius, in.Radius > 0)
-	chk(&in.SemiMajorAxis, in.SemiMajorAxis > 0)
-	chk(&in.Eccentricity, in.Eccentricity >= 0 && in.Eccentricity < 1)
-	chk(&in.Obliquity, true)
-	chk(&in.Period, in.Period > 0)
-	chk(&in.K2Q, in.K2Q >= 0)
-	chk(&in.BondAlbedo, in.BondAlbedo >= 0 && in.BondAlbedo <= 1)
-	chk(&in.SurfaceTemperature, in.SurfaceTemperature > 0)
-	chk(&in.MomentOfInertia, in.MomentOfInertia > 0 && in.MomentOfInertia <= 2.0/3.0)
-	chk(&in.AtmosphereColumn, in.AtmosphereColumn >= 0)
-	chk(&in.PlanetMass, in.PlanetMass > 0)
-	chk(&in.StarDistance, in.StarDistance > 0)
-	chk(&in.StarLuminosity, in.StarLuminosity >= 0)
-	chk(&in.RockDensity, in.RockDensity > 0)
-	return bad
+	*v = nan
+	return 1
 }
 
 // Evaluate computes every derived quantity of one moon from in, under the
@@ -262,6 +275,9 @@ func sanitize(in *Inputs) bool {
 //     without it, or with no physical solution (FlagNoThreeLayerSolution),
 //     the two-component RockFraction from BulkDensity, RockDensity and
 //     opt.IceDensity. Gives RockFraction and a provisional H₂O layer.
+//     RockDensity is needed only by the two-component model; when the
+//     three-layer model fails and RockDensity is NaN, opt.MantleDensity
+//     stands in for it.
 //  5. RadiogenicPower: RockFraction, Mass, opt.RockHeatProduction.
 //  6. HeatFlux: TidalPower + RadiogenicPower over the surface (Radius).
 //  7. EquilibriumTemperature: StarLuminosity, BondAlbedo, StarDistance.
@@ -326,11 +342,17 @@ func Evaluate(in Inputs, opt Options, out *Derived) {
 			fl |= FlagNoThreeLayerSolution
 		}
 	}
-	if twoComponent && !math.IsNaN(in.RockDensity) {
+	rockDensity := in.RockDensity
+	if math.IsNaN(rockDensity) && fl&FlagNoThreeLayerSolution != 0 {
+		// The fallback of a failed three-layer solution uses the profile's
+		// rock mantle as the rock end member when no rock density is given.
+		rockDensity = opt.MantleDensity
+	}
+	if twoComponent && !math.IsNaN(rockDensity) {
 		var ff Flag
-		f, ff = RockFraction(rho, in.RockDensity, opt.IceDensity)
+		f, ff = RockFraction(rho, rockDensity, opt.IceDensity)
 		fl |= ff
-		water = TwoComponentWaterLayer(in.Radius, rho, f, in.RockDensity)
+		water = TwoComponentWaterLayer(in.Radius, rho, f, rockDensity)
 		if !math.IsNaN(water) {
 			out.Interior = InteriorTwoComponent
 			out.MantleRadius = in.Radius - water
@@ -357,11 +379,13 @@ func Evaluate(in Inputs, opt Options, out *Derived) {
 		base = G * in.Mass / (Boltzmann * Avogadro * ts * in.Radius)
 	}
 	column := in.AtmosphereColumn
-	var nSurf, tau0 float64 = nan, nan
+	var nSurf, tau0, v0Scale float64 = nan, nan, nan
 	if !math.IsNaN(column) && !math.IsNaN(base) {
-		// τ = column / (μ Φ) with Φ = n v₀ (1+λ) e^{−λ} / (2√π), n = column g / (kT).
+		// τ = column / (μ Φ) with Φ = n v₀ (1+λ) e^{−λ} / (2√π), n = column g / (kT),
+		// v₀ = √(2kT N_A / M).
 		nSurf = SurfaceNumberDensity(column, g, ts)
 		tau0 = 2 * math.SqrtPi
+		v0Scale = math.Sqrt(2 * Boltzmann * Avogadro * ts)
 	}
 	for j := range NumVolatiles {
 		mm := Volatiles[j].MolarMass
@@ -374,7 +398,7 @@ func Evaluate(in Inputs, opt Options, out *Derived) {
 		case column == 0:
 			out.RetentionTime[j] = 0
 		default:
-			v0 := math.Sqrt(2 * Boltzmann * Avogadro * ts / mm)
+			v0 := v0Scale * invSqrtMolarMass[j]
 			massFlux := nSurf * (mm / Avogadro) * v0 * (1 + lam) * math.Exp(-lam) / tau0
 			out.RetentionTime[j] = column / massFlux
 		}

@@ -204,6 +204,7 @@ func TestEvaluateMissing(t *testing.T) {
 		{"no MoI, no rock density", func(in *Inputs) { in.MomentOfInertia = nan; in.RockDensity = nan },
 			[]string{"RockFraction", "RadiogenicPower", "HeatFlux", "SurfaceTemperature", "WaterLayerThickness", "IceShellThickness", "OceanThickness", "JeansH2O"}},
 		{"no rock density (three-layer)", func(in *Inputs) { in.RockDensity = nan }, nil},
+		{"no rock density, three-layer fails", func(in *Inputs) { in.RockDensity = nan; in.MomentOfInertia = 0.45 }, nil},
 		{"no mass", func(in *Inputs) { in.Mass = nan },
 			[]string{"TidalForce", "EscapeVelocity", "RockFraction", "RadiogenicPower", "HeatFlux", "SurfaceTemperature", "WaterLayerThickness", "IceShellThickness", "OceanThickness", "JeansH2O"}},
 		{"no albedo", func(in *Inputs) { in.BondAlbedo = nan },

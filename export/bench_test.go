@@ -50,3 +50,15 @@ func BenchmarkJSON10k(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkBaselineResult10k only builds the synthetic 10,000-target Result:
+// run under /usr/bin/time -v beside BenchmarkWorkbook10k, its peak resident
+// memory is the baseline the workbook's memory is measured against.
+func BenchmarkBaselineResult10k(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		r := syntheticResult(10_000)
+		if len(r.Targets) != 10_000 {
+			b.Fatal("wrong size")
+		}
+	}
+}

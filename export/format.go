@@ -108,7 +108,8 @@ func distinguishable(v [3]float64, s [3]string) bool {
 // displayUnit picks the unit a quantity is shown in and the factor (SI value
 // per shown unit) for a reference magnitude ref in SI.
 func displayUnit(unit string, ref float64) (scale float64, shown string) {
-	switch strings.TrimSpace(unit) {
+	unit = strings.ToValidUTF8(strings.TrimSpace(unit), "\uFFFD")
+	switch unit {
 	case "W":
 		e := 0
 		if ref > 0 && isFinite(ref) {
@@ -132,7 +133,7 @@ func displayUnit(unit string, ref float64) (scale float64, shown string) {
 		}
 		return 1, "m/s"
 	}
-	return 1, prettyUnit(strings.TrimSpace(unit))
+	return 1, prettyUnit(unit)
 }
 
 // prettyUnit writes the powers in a VOUnits spelling as superscripts for

@@ -322,6 +322,16 @@ func (b *book) stream(t table) error {
 			return err
 		}
 	}
+	// Printing: landscape, with the header rows repeated on every page.
+	landscape := "landscape"
+	if err := b.f.SetPageLayout(t.sheet, &excelize.PageLayoutOptions{Orientation: &landscape}); err != nil {
+		return err
+	}
+	if err := b.f.SetDefinedName(&excelize.DefinedName{
+		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("%s!$1:$%d", sheetRef(t.sheet), headRow), Scope: t.sheet,
+	}); err != nil {
+		return err
+	}
 	if t.extras != nil {
 		if err := t.extras(sw, lastRow); err != nil {
 			return err
@@ -436,8 +446,12 @@ const (
 	rankingScoreP95Col = 9 // I
 )
 
-func (b *book) ranking(r *rank.Result) error {
-	cols := []column{
+// rankingCols is the number of columns of the Ranking sheet; the chart
+// stands beside them.
+const rankingCols = 24
+
+func rankingColumns(r *rank.Result) []column {
+	return []column{
 		{"Rank (median)", fmtRank},
 		{"Rank interval (5–95 %)", ""},
 		{"Name", ""},
@@ -462,6 +476,13 @@ func (b *book) ranking(r *rank.Result) error {
 		{"Main driver share of score variance", fmtShare},
 		{"Assumed inputs mark", ""},
 		{"Assumed inputs", ""},
+	}
+}
+
+func (b *book) ranking(r *rank.Result) error {
+	cols := rankingColumns(r)
+	if len(cols) != rankingCols {
+		panic("export: rankingCols out of date")
 	}
 	maxScore := 1.0
 	for i := range r.Targets {
@@ -814,6 +835,19 @@ var Simplifications = []string{
 	"Scores are profile-defined transfers of the derived quantities to [0, 1]; the ranking is only as good as the profile's choices.",
 }
 
+// readingGuide tells a reader who never ran tidesift where to look.
+func readingGuide(r *rank.Result) []string {
+	chartAt, _ := excelize.ColumnNumberToName(rankingCols + 2)
+	return []string{
+		"Ranking: one row per target, best first; every range is given as text (median with its 5–95 % range) and as numeric p05/p50/p95 columns for sorting and filtering.",
+		fmt.Sprintf("Ranking, from column %s: a chart of the score median (tick) and its 5–95 %% range (vertical line) for the best %d targets by median rank.", chartAt, min(ChartTargets, len(r.Targets))),
+		fmt.Sprintf("P(rank ≤ %d) is the fraction of Monte Carlo samples in which the target ranks among the best %d.", r.TopK, r.TopK),
+		"Main driver: the input whose uncertainty accounts for the largest first-order share of the score's variance, i.e. the measurement that would sharpen the ranking most.",
+		"Derived: every derived quantity in SI units; Inputs: every input with its uncertainty, status (measured, or assumed from a prior), source and catalog revision; Drivers: each input's share of the score variance.",
+		"Numbers are in SI units as the column headers state; an empty numeric cell means the quantity could not be computed.",
+	}
+}
+
 // cautionLines are the cautions at the top of the Method sheet.
 var cautionLines = []string{
 	Caution,
@@ -893,6 +927,11 @@ func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 		goarch = runtime.GOARCH
 	}
 	kv("GOARCH of the ranking", goarch)
+	put(0)
+	put(b.header, "Reading the workbook")
+	for _, l := range readingGuide(r) {
+		put(0, l)
+	}
 	put(0)
 	put(b.header, "Simplifications")
 	for _, l := range Simplifications {

@@ -94,17 +94,24 @@ func num(v float64, sig int) string {
 	return s
 }
 
+// sig3 renders an uncertainty: rounded to three significant digits, written
+// out in full below 10⁶ ("1300", not "1.3e3").
+func sig3(v float64) string {
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 3, 64), 64)
+	return num(r, 6)
+}
+
 // uncText renders an uncertainty in the display unit (values divided by f).
 func uncText(u schema.Uncertainty, f float64) string {
 	switch u.Kind {
 	case schema.UncSymmetric:
-		return "± " + num(u.Sigma/f, 3)
+		return "± " + sig3(u.Sigma/f)
 	case schema.UncAsymmetric:
-		return "+" + num(u.Plus/f, 3) + " -" + num(u.Minus/f, 3)
+		return "+" + sig3(u.Plus/f) + " -" + sig3(u.Minus/f)
 	case schema.UncRange:
 		return "[" + num(u.Min/f, 4) + ", " + num(u.Max/f, 4) + "]"
 	case schema.UncFactor:
-		return "×/÷ " + num(u.Factor, 3)
+		return "×/÷ " + sig3(u.Factor)
 	}
 	return ""
 }

@@ -212,8 +212,8 @@ func printImport(w io.Writer, res *importers.Result, out *store.ImportResult, dr
 		fmt.Fprintf(w, "%s: unchanged: all %d values are already in the catalog; no revision made\n", res.File, out.Unchanged)
 		return
 	default:
-		fmt.Fprintf(w, "%s: revision %d: %d rows; %d values added, %d changed, %d unchanged; %d new bodies\n",
-			res.File, out.Revision.ID, len(res.Records), out.Added, out.Changed, out.Unchanged, out.NewBodies)
+		fmt.Fprintf(w, "%s: revision %d: %s; %d values added, %d changed, %d unchanged; %d new bodies\n",
+			res.File, out.Revision.ID, plural(len(res.Records), "row"), out.Added, out.Changed, out.Unchanged, out.NewBodies)
 	}
 	for _, c := range out.Changes {
 		if c.Old == nil || c.New == nil {

@@ -126,7 +126,7 @@ func listCell(in map[string]schema.Param, key string) string {
 		k2, ok1 := in["k2"]
 		q, ok2 := in["q"]
 		if ok1 && ok2 && q.Value > 0 {
-			return num(k2.Value/q.Value, 3) + " (k2/Q)"
+			return num(k2.Value/q.Value, 3) + " from k2, Q"
 		}
 	}
 	return "-"

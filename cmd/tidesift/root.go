@@ -113,6 +113,7 @@ func newRootCmd(a *app) *cobra.Command {
 		newProfileCmd(a),
 		newHistoryCmd(a, nil),
 		newDiffCmd(a, nil),
+		newMethodsCmd(a, nil),
 	)
 	return root
 }

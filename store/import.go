@@ -157,9 +157,14 @@ type curVal struct {
 	counted bool // counted as Unchanged, or set by this import (then not counted)
 }
 
-type planetKey struct {
-	star int64 // 0: no star
-	key  string
+type moonName struct {
+	id   int64
+	name string
+}
+
+type childKey struct {
+	parent int64 // 0: no parent (a planet without a star)
+	key    string
 }
 
 type importer struct {
@@ -175,17 +180,18 @@ type importer struct {
 	stmts                                                     []*sql.Stmt
 
 	stars      map[string]*bodyState
-	planets    map[planetKey]*bodyState
+	planets    map[childKey]*bodyState
 	anyPlanet  map[string]*bodyState // planets looked up without a star
 	planetByID map[int64]*bodyState
-	moonsSeen  map[int64]int // moon id → row that set it
+	moonsSeen  map[int64]int         // moon id → row that set it
+	newMoons   map[childKey]moonName // names and aliases of moons of planets this import created
 	moonVals   map[string]*curVal
 }
 
 func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*importer, error) {
 	im := &importer{ctx: ctx, tx: tx, rev: rev, omit: omit, dead: map[int]bool{},
-		stars: map[string]*bodyState{}, planets: map[planetKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
-		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, moonVals: map[string]*curVal{}}
+		stars: map[string]*bodyState{}, planets: map[childKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
+		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, newMoons: map[childKey]moonName{}, moonVals: map[string]*curVal{}}
 	prep := []struct {
 		dst **sql.Stmt
 		sql string
@@ -347,7 +353,7 @@ func (im *importer) create(kind schema.Kind, parentID int64, parentName, name, k
 func (im *importer) planet(name string, star *bodyState) (*bodyState, error) {
 	key := schema.NameKey(name)
 	if star != nil {
-		pk := planetKey{star.id, key}
+		pk := childKey{star.id, key}
 		if b := im.planets[pk]; b != nil {
 			return b, nil
 		}
@@ -451,9 +457,17 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			}
 		}
 	} else {
+		// Nothing in the database can match under a planet this import
+		// created; only moons created by earlier records can.
 		for _, n := range names {
-			if k := schema.NameKey(n); k != "" {
-				keys = append(keys, k)
+			k := schema.NameKey(n)
+			if k == "" {
+				continue
+			}
+			keys = append(keys, k)
+			if c, ok := im.newMoons[childKey{planet.id, k}]; ok && !seen[c.id] {
+				seen[c.id] = true
+				cands = append(cands, cand{c.id, c.name})
 			}
 		}
 	}
@@ -480,10 +494,16 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 	}
 	im.moonsSeen[m.id] = r.Row
 	mkey := schema.NameKey(m.name)
+	if planet.isNew {
+		im.newMoons[childKey{planet.id, mkey}] = moonName{m.id, m.name}
+	}
 	for _, n := range names {
 		k := schema.NameKey(n)
 		if k == "" || k == mkey {
 			continue
+		}
+		if planet.isNew {
+			im.newMoons[childKey{planet.id, k}] = moonName{m.id, m.name}
 		}
 		res, err := im.insAlias.ExecContext(im.ctx, m.id, strings.Join(strings.Fields(n), " "), k, im.rev)
 		if err != nil {

@@ -34,14 +34,17 @@ required input with no prior for it is not ranked and is listed as excluded,
 with the missing keys.
 
 Sampling. Each moon gets N samples (default 10,000) of all its inputs,
-independent between inputs. Samples are drawn in chunks of 1,024 from a PCG
-generator (math/rand/v2) seeded from (seed, a hash of the moon's planet and
-name, chunk number) through SplitMix64 (Steele, Lea & Flood 2014), so a moon's
-samples depend only on the seed and on that moon, whatever other moons are
-ranked and however many processors share the work: the same catalog
-revision, profile, seed and sample count give byte-identical output on one
-platform (last-bit differences of floating-point functions between
-architectures aside; the output names its GOARCH).
+independent between inputs. Each input is drawn in chunks of 1,024 samples
+from its own PCG generator stream (math/rand/v2), seeded from (seed, a hash of
+the input's key and of the names of the body that owns it, chunk number)
+through SplitMix64 (Steele, Lea & Flood 2014). A moon's samples therefore
+depend only on the seed and on that moon, whatever other moons are ranked and
+however many processors share the work: the same catalog revision, profile,
+seed and sample count give byte-identical output on one platform (last-bit
+differences of floating-point functions between architectures aside; the
+output names its GOARCH). A planet's or star's values (planet mass, distance
+from the star, luminosity) are the same draw in sample j for every moon of
+that planet or star, so the joint ranking keeps the correlation they induce.
 
 Scores. In each sample the physical model is evaluated and every criterion
 maps its metric x to [0, 1]: ramp (0 at lo, 1 at hi, linear between, clamped;
@@ -72,9 +75,8 @@ ranks in every sample are a permutation of 1..M. Each moon's median rank and
 5-95 % rank interval are type-7 quantiles of its ranks over the N samples, and
 P(rank <= k) is the fraction of samples in which it ranks in the top k; summed
 over all moons these probabilities are exactly k. Moons are listed by median
-rank, then median score, then name. Inputs are independent between moons (a
-shared planet or star value is sampled separately for each of its moons), so
-rank statistics treat the moons' uncertainties as independent.
+rank, then median score, then name. Apart from the shared planet and star
+values, inputs are independent between moons.
 
 Drivers. For each moon the share of its score variance owed to each uncertain
 input is its first-order sensitivity index S_i = V(E[score | X_i]) / V(score)

@@ -24,6 +24,7 @@ type slot struct {
 	dist    uncertain.Dist
 	param   schema.Param // as reported in Target.Inputs
 	assumed bool
+	stream  uint64 // generator stream: the owning body's identity and the key
 }
 
 // role is a physics input; each is filled from at most one slot.
@@ -112,10 +113,26 @@ func buildPlan(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*
 	for i := range p.at {
 		p.at[i] = -1
 	}
+	// Each input draws from its own stream, keyed by the body that owns the
+	// key: a planet's or star's values are then the same in sample j for all
+	// of its moons, so the joint ranking keeps their correlation.
+	planet := schema.NameKey(moon.Parent)
+	star := schema.NameKey(cat.StarOf(moon))
+	owner := func(key string) string {
+		info, _ := profile.PriorKey(key)
+		switch info.Body {
+		case schema.KindStar:
+			return "star\x00" + star
+		case schema.KindPlanet:
+			return "planet\x00" + planet
+		}
+		return "moon\x00" + planet + "\x00" + schema.NameKey(moon.Name)
+	}
 	use := func(r role) {
 		s := src[r]
+		k := roleKeys[r]
 		p.at[r] = len(p.slots)
-		p.slots = append(p.slots, slot{key: roleKeys[r], dist: s.dist, param: s.param, assumed: !s.measured})
+		p.slots = append(p.slots, slot{key: k, dist: s.dist, param: s.param, assumed: !s.measured, stream: hash64(owner(k) + "\x00" + k)})
 	}
 	m, rad, rho := src[rMass], src[rRadius], src[rDensity]
 	switch {
@@ -202,6 +219,16 @@ func buildPlan(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*
 		}
 	}
 	return p, errors.Join(errs...)
+}
+
+// hash64 is FNV-1a (64 bit).
+func hash64(s string) uint64 {
+	h := uint64(14695981039346656037)
+	for i := 0; i < len(s); i++ {
+		h ^= uint64(s[i])
+		h *= 1099511628211
+	}
+	return h
 }
 
 func keyOrder(k string) int {

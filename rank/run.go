@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"hash/fnv"
 	"math"
 	"math/bits"
 	"math/rand/v2"
@@ -69,7 +68,6 @@ type target struct {
 	moon *schema.Body
 	plan *plan
 	star string
-	hash uint64
 	out  *Target
 }
 
@@ -131,9 +129,7 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 				m.Name, m.Parent, ErrMissingInputs, strings.Join(p.missing, ", ")))
 			continue
 		}
-		h := fnv.New64a()
-		h.Write([]byte(schema.NameKey(m.Parent) + "\x00" + schema.NameKey(m.Name)))
-		ts = append(ts, target{moon: m, plan: p, star: cat.StarOf(m), hash: h.Sum64()})
+		ts = append(ts, target{moon: m, plan: p, star: cat.StarOf(m)})
 	}
 	N := len(ts)
 	if N == 0 {
@@ -277,12 +273,14 @@ func splitmix64(x uint64) uint64 {
 	return x ^ (x >> 31)
 }
 
-// streamSeed returns the PCG seed of one (target, chunk) stream. The target
-// enters by the hash of its (planet, name) key rather than its position, so a
-// moon's samples do not change when other moons are added or filtered out.
-func streamSeed(seed, target uint64, chunk int) (uint64, uint64) {
+// streamSeed returns the PCG seed of one (input stream, chunk) pair. The
+// stream is a hash of the input's key and the identity (names) of the body
+// that owns it, not of positions, so a moon's samples do not change when other
+// moons are added or filtered out, and the moons of one planet or star share
+// that body's draws sample by sample.
+func streamSeed(seed, stream uint64, chunk int) (uint64, uint64) {
 	x := splitmix64(seed)
-	x = splitmix64(x ^ target)
+	x = splitmix64(x ^ stream)
 	x = splitmix64(x ^ uint64(chunk))
 	return x, splitmix64(x ^ 0xda942042e4dd58b5)
 }
@@ -352,8 +350,8 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 	for c := 0; c*ChunkSize < S; c++ {
 		g0 := c * ChunkSize
 		n := min(ChunkSize, S-g0)
-		w.src.Seed(streamSeed(seed, t.hash, c))
 		for s, sl := range p.slots {
+			w.src.Seed(streamSeed(seed, sl.stream, c))
 			sl.dist.Fill(w.rng, w.cols[s][:n])
 		}
 		for i := range n {

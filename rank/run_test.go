@@ -444,3 +444,43 @@ func TestOptions(t *testing.T) {
 	}
 	_ = uncertain.Median
 }
+
+// TestSharedPlanetDraws: moons of one planet share its draws sample by
+// sample. Two moons identical but for their names, whose only uncertain input
+// is the planet's mass, then tie in every sample, and the tie goes to catalog
+// order: the first ranks first in every sample.
+func TestSharedPlanetDraws(t *testing.T) {
+	moon := func(name string) schema.Body {
+		return body(schema.KindMoon, name, "Aurel b", fixed("mass", 4.8e22), fixed("radius", 1560*kmM),
+			fixed("semi_major_axis", 671000*kmM), fixed("eccentricity", 0.009))
+	}
+	cat := &schema.Catalog{
+		Stars:   []schema.Body{body(schema.KindStar, "Aurel", "", fixed("star_luminosity", lsunW))},
+		Planets: []schema.Body{body(schema.KindPlanet, "Aurel b", "Aurel", sig("planet_mass", 1.9e27, 5e26), fixed("star_distance", 5.2*auM))},
+		Moons:   []schema.Body{moon("Twin A"), moon("Twin B")},
+	}
+	prof, err := profile.Parse("t", []byte(`
+top_k = 1
+[[criterion]]
+metric = "tidal_force_n"
+transfer = "log_ramp"
+lo = 1e18
+hi = 1e22
+[priors]
+k2_q = { dist = "fixed", value = 0.01 }
+bond_albedo = { dist = "fixed", value = 0.5 }
+obliquity = { dist = "fixed", value = 0 }
+rock_density = { dist = "fixed", value = 3300 }
+`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	res := mustRun(t, cat, prof, Options{Samples: 2000})
+	a, b := res.Targets[0], res.Targets[1]
+	if a.Name != "Twin A" || a.PTop.P != 1 || b.PTop.P != 0 || a.Score != b.Score {
+		t.Errorf("A: %s P=%g score %+v; B: %s P=%g score %+v", a.Name, a.PTop.P, a.Score, b.Name, b.PTop.P, b.Score)
+	}
+	if a.Score.P05 == a.Score.P95 {
+		t.Error("the planet mass did not vary")
+	}
+}

@@ -11,7 +11,10 @@
 //	for _, s := range method.Sections() // or headed parts
 //		fmt.Println(s.Title)
 //
-// The section "Uncertainty and ranking" describes the Monte Carlo design and is
-// the place to extend when the engine's details (estimators, sample counts)
-// settle.
+// The section "Uncertainty and ranking" describes the Monte Carlo design in
+// outline. The engine states its exact procedure itself (rank.MethodText);
+// WithUncertainty splices that text in place of the outline, so the methods
+// command and the workbook print
+//
+//	method.WithUncertainty(rank.MethodText())
 package method

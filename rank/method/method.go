@@ -22,8 +22,12 @@ type Section struct {
 // dashes), for writers that lay the text out themselves, such as a workbook
 // sheet. The document's title line (the first line) is not a section; Title()
 // returns it.
-func Sections() []Section {
-	lines := strings.Split(strings.TrimRight(text, "\n"), "\n")
+func Sections() []Section { return SectionsOf(text) }
+
+// SectionsOf splits any text in the layout of Text (such as the result of
+// WithUncertainty) at its headings, as Sections does.
+func SectionsOf(doc string) []Section {
+	lines := strings.Split(strings.TrimRight(doc, "\n"), "\n")
 	var out []Section
 	title := strings.TrimSpace(lines[0])
 	start := 1
@@ -54,4 +58,48 @@ func isRule(s string) bool {
 func Title() string {
 	t, _, _ := strings.Cut(text, "\n")
 	return strings.TrimSpace(t)
+}
+
+// UncertaintyHeading is the heading of the section that WithUncertainty
+// replaces.
+const UncertaintyHeading = "Uncertainty and ranking"
+
+// WithUncertainty returns the method text with its "Uncertainty and ranking"
+// section (heading, rule and body) replaced by section, which carries its own
+// heading in the same layout — the Monte Carlo engine's own description
+// (rank.MethodText) — so that the printed method states exactly what the
+// engine does. An empty section leaves the text unchanged.
+func WithUncertainty(section string) string {
+	section = strings.Trim(section, "\n")
+	if section == "" {
+		return text
+	}
+	lines := strings.Split(text, "\n")
+	heading := func(k int) bool {
+		return k+1 < len(lines) && strings.TrimSpace(lines[k]) != "" && isRule(lines[k+1])
+	}
+	h := -1
+	for k := range lines {
+		if strings.TrimSpace(lines[k]) == UncertaintyHeading && heading(k) {
+			h = k
+			break
+		}
+	}
+	if h < 0 {
+		return strings.TrimRight(text, "\n") + "\n\n\n" + section + "\n"
+	}
+	end := len(lines)
+	for k := h + 2; k < len(lines); k++ {
+		if heading(k) {
+			end = k
+			break
+		}
+	}
+	tail := ""
+	if end < len(lines) {
+		tail = "\n\n\n" + strings.Join(lines[end:], "\n")
+	} else {
+		tail = "\n"
+	}
+	return strings.Join(lines[:h], "\n") + "\n" + section + tail
 }

@@ -116,3 +116,39 @@ func TestSections(t *testing.T) {
 		t.Errorf("sections hold %d of %d bytes", total, len(Text()))
 	}
 }
+
+func TestWithUncertainty(t *testing.T) {
+	sec := "Uncertainty and ranking\n-----------------------\nEngine text A.\n\nEngine text B.\n"
+	got := WithUncertainty(sec)
+	if !strings.Contains(got, "Engine text A.\n\nEngine text B.\n\n\nSources\n-------\n") {
+		t.Errorf("section not spliced before Sources:\n%s", got[strings.Index(got, "Engine")-200:])
+	}
+	if strings.Contains(got, "Sampling is seeded and reproducible") {
+		t.Error("old section text survived")
+	}
+	if strings.Count(got, "Uncertainty and ranking\n---") != 1 {
+		t.Error("heading duplicated or lost")
+	}
+	// Everything outside the section is unchanged.
+	before, _, _ := strings.Cut(Text(), "Uncertainty and ranking\n---")
+	if !strings.HasPrefix(got, before) {
+		t.Error("text before the section changed")
+	}
+	_, after, _ := strings.Cut(Text(), "\nSources\n-------\n")
+	if !strings.HasSuffix(got, after) {
+		t.Error("text after the section changed")
+	}
+	var titles []string
+	for _, s := range SectionsOf(got) {
+		titles = append(titles, s.Title)
+		if s.Title == UncertaintyHeading && s.Body != "Engine text A.\n\nEngine text B." {
+			t.Errorf("spliced body %q", s.Body)
+		}
+	}
+	if titles[len(titles)-1] != "Sources" || titles[len(titles)-2] != UncertaintyHeading {
+		t.Errorf("titles %v", titles)
+	}
+	if WithUncertainty("") != Text() {
+		t.Error("empty section changed the text")
+	}
+}

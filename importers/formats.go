@@ -21,7 +21,10 @@ import (
 	"strings"
 
 	"tidesift/importers/csv"
+	"tidesift/importers/json"
 	"tidesift/importers/table"
+	"tidesift/importers/votable"
+	"tidesift/importers/xlsx"
 )
 
 // Formats lists the format names Options.Format accepts.
@@ -74,8 +77,12 @@ func openTable(format string, r io.Reader, opt Options) (table.Reader, error) {
 		return csv.NewReader(r, csv.Options{Comma: ',', MaxRecordBytes: opt.MaxRecordBytes})
 	case "tsv":
 		return csv.NewReader(r, csv.Options{Comma: '\t', MaxRecordBytes: opt.MaxRecordBytes})
-	case "json", "xlsx", "votable":
-		return nil, fmt.Errorf("%w: the %s reader is not built into this tidesift yet", ErrUnknownFormat, format)
+	case "json":
+		return json.NewReader(r, json.Options{MaxElement: opt.MaxRecordBytes})
+	case "xlsx":
+		return xlsx.NewReader(r, xlsx.Options{Sheet: opt.Sheet})
+	case "votable":
+		return votable.NewReader(r, votable.Options{Table: opt.Table})
 	}
 	return nil, fmt.Errorf("%w %q (want one of %s)", ErrUnknownFormat, format, strings.Join(Formats, ", "))
 }

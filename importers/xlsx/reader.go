@@ -62,8 +62,9 @@ type Options struct {
 	TmpDir string
 }
 
-// Reader reads the rows of one sheet. It implements table.Reader; call Close
-// when done to remove temporary files.
+// Reader reads the rows of one sheet. It implements table.Reader. Temporary
+// files (large parts) are removed when Next reaches the end or an error, or by
+// Close, which a caller that stops early should call.
 type Reader struct {
 	f         *excelize.File
 	rows      *excelize.Rows
@@ -380,6 +381,7 @@ func (rd *Reader) Next() ([]string, int, error) {
 					err = io.EOF
 				}
 				rd.done, rd.err = true, err
+				rd.Close()
 				return nil, 0, err
 			}
 			cells, n = c, rd.sheetRow
@@ -397,6 +399,7 @@ func (rd *Reader) Next() ([]string, int, error) {
 			if i >= len(rd.cells) {
 				ref, _ := excelize.CoordinatesToCellName(i+1, n)
 				rd.done, rd.err = true, fmt.Errorf("sheet %q, cell %s: %w (the header in row %d ends at column %d); add a header or clear the cell", rd.sheet, ref, ErrBeyondHeader, rd.header, len(rd.cols))
+				rd.Close()
 				return nil, 0, rd.err
 			}
 			rd.cells[i] = c
@@ -407,14 +410,18 @@ func (rd *Reader) Next() ([]string, int, error) {
 	}
 }
 
-// Close releases the workbook and removes its temporary files.
+// Close releases the workbook and removes its temporary files. Next calls it
+// itself once it has returned io.EOF or an error, so a caller that reads to
+// the end need not; calling it again is harmless.
 func (rd *Reader) Close() error {
 	var err error
 	if rd.rows != nil {
 		rd.rows.Close()
+		rd.rows = nil
 	}
 	if rd.f != nil {
 		err = rd.f.Close()
+		rd.f = nil
 	}
 	return err
 }

@@ -368,12 +368,15 @@ func TestLargeSheetSpillsToDisk(t *testing.T) {
 	f.Close()
 	tmp := t.TempDir()
 	rd := mustOpen(t, path, Options{MaxUnzipXML: 64 << 10, TmpDir: tmp})
+	if spilled, _ := os.ReadDir(tmp); len(spilled) == 0 {
+		t.Error("the sheet was not unzipped to a temporary file")
+	}
 	rows := readAll(t, rd)
 	if len(rows) != n || rows[n-1].n != n+1 {
 		t.Fatalf("%d rows, last numbered %d", len(rows), rows[len(rows)-1].n)
 	}
-	rd.Close()
+	// Next closed the workbook at the end: nothing is left behind.
 	if left, _ := os.ReadDir(tmp); len(left) != 0 {
-		t.Errorf("temporary files left after Close: %v", left)
+		t.Errorf("temporary files left after the last row: %v", left)
 	}
 }

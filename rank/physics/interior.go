@@ -191,7 +191,7 @@ func SolveThreeLayer(radius, rho, moi, rhoCore, rhoMantle, rhoWater float64) (so
 	var x float64
 	prev := math.Inf(1)
 	for range 100 {
-		g, dg, xx := threeLayerResidual(y, a, b, cA, cB)
+		g, dg, xx := threeLayerResidual(y, a, b, cA, cB, x)
 		x = xx
 		if g == 0 {
 			break
@@ -230,7 +230,7 @@ func SolveThreeLayer(radius, rho, moi, rhoCore, rhoMantle, rhoWater float64) (so
 		}
 		y = next
 	}
-	_, _, x = threeLayerResidual(y, a, b, cA, cB)
+	_, _, x = threeLayerResidual(y, a, b, cA, cB, x)
 	return threeLayerSolution(radius, rho, rhoWater, x, y), true
 }
 
@@ -245,15 +245,32 @@ func threeLayerSolution(radius, rho, rhoWater, x, y float64) ThreeLayer {
 
 // threeLayerResidual returns g(y) = a y⁵ + b x⁵ − B, its derivative along the
 // mass-conserving curve x³ = (A − a y³)/b, dg/dy = 5 a y² (y² − x²), and x.
-func threeLayerResidual(y, a, b, cA, cB float64) (g, dg, x float64) {
+// hint is an estimate of x (0 for none): two Newton steps from it replace
+// the cube root when they reach full precision, which they do once the outer
+// iteration has nearly converged.
+func threeLayerResidual(y, a, b, cA, cB, hint float64) (g, dg, x float64) {
 	y2 := y * y
 	y3 := y2 * y
 	x3 := (cA - a*y3) / b
 	if x3 < 0 {
 		x3 = 0
 	}
-	x = math.Cbrt(x3)
+	x = cubeRoot(x3, hint)
 	g = a*y3*y2 + b*x3*x*x - cB
 	dg = 5 * a * y2 * (y2 - x*x)
 	return g, dg, x
+}
+
+// cubeRoot returns ∛t for t ≥ 0, refining hint by Newton's method when hint is
+// within a few percent, and calling math.Cbrt otherwise.
+func cubeRoot(t, hint float64) float64 {
+	if hint > 1e-3 && t > 0 {
+		x := hint
+		x -= (x*x*x - t) / (3 * x * x)
+		x -= (x*x*x - t) / (3 * x * x)
+		if r := x*x*x - t; math.Abs(r) <= 4e-16*t {
+			return x
+		}
+	}
+	return math.Cbrt(t)
 }

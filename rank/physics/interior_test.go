@@ -120,7 +120,8 @@ func TestThreeLayerGalilean(t *testing.T) {
 		return SolveThreeLayer(b.radius, BulkDensity(b.mass, b.radius), b.moi, opt.CoreDensity, mantle, opt.WaterDensity)
 	}
 	// Europa: Anderson et al. 1998 (Science 281, 2019) found an H₂O layer of
-	// roughly 80–170 km from C/MR² = 0.346; "of the order of 100 km".
+	// roughly 80–170 km from C/MR² = 0.346 (range from memory); "of the
+	// order of 100 km" is the check.
 	if sol, ok := solve(europa, opt.MantleDensity); !ok || sol.WaterThickness < 70*km || sol.WaterThickness > 200*km {
 		t.Errorf("Europa H2O = %.4g m (ok %v), want about 100 km", sol.WaterThickness, ok)
 	}

@@ -38,7 +38,7 @@ func TestEvaluateOceans(t *testing.T) {
 	//
 	// Tidal heating of Europa and Ganymede is not measured. Europa gets an
 	// assumed k2/Q = 0.25/100 (k2 ≈ 0.25 for an ocean-bearing Europa, Moore &
-	// Schubert 2000, Icarus 147, 317; Q = 100 common practice); Ganymede's
+	// Schubert 2000, Icarus 147, 317, from memory; Q = 100 common practice); Ganymede's
 	// tidal heat is negligible at its e = 0.001 whatever k2/Q, so it gets
 	// none (radiogenic heating alone). Io: Lainey et al. 2009. Moon: k2/Q =
 	// 0.0006 (k2 ≈ 0.024, Q ≈ 38; Williams et al. 2014, from memory).

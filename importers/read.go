@@ -47,6 +47,7 @@ type reader struct {
 	params []schema.Param
 	kinds  []schema.Kind                          // body kind of each of params
 	kidx   []int                                  // index in schema.Keys of each of params
+	slab   []schema.Param                         // backing store of records\' Params
 	last   [fieldIgnore]struct{ raw, val string } // one-entry intern caches
 
 	bodybuf    []byte
@@ -115,6 +116,17 @@ func readTable(name string, tr table.Reader, opt Options, res *Result, emit func
 		}
 	}
 	return rd.c.err()
+}
+
+// alloc copies params into a shared slab, so that a row costs no allocation
+// of its own; each record's slice is capped so appends never overlap.
+func (rd *reader) alloc(params []schema.Param) []schema.Param {
+	if len(rd.slab)+len(params) > cap(rd.slab) {
+		rd.slab = make([]schema.Param, 0, max(4096, len(params)))
+	}
+	i := len(rd.slab)
+	rd.slab = append(rd.slab, params...)
+	return rd.slab[i:len(rd.slab):len(rd.slab)]
 }
 
 // reject records a bad row: as a Reject under SkipInvalid, as errors otherwise.
@@ -271,8 +283,7 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 		return false
 	}
 	if len(params) > 0 {
-		rec.Params = make([]schema.Param, len(params))
-		copy(rec.Params, params)
+		rec.Params = rd.alloc(params)
 	}
 	rd.commitBodies(rec, row, cells)
 	return true

@@ -165,7 +165,7 @@ func (r *Reader) Next() ([]string, int, error) {
 		return rec, line, &RowError{Line: line, Err: fmt.Errorf("%w: %d fields, the header has %d", ErrFieldCount, len(rec), r.n)}
 	}
 	for i, f := range rec {
-		if !utf8.ValidString(f) {
+		if r.guard.high && !utf8.ValidString(f) {
 			return rec, line, &RowError{Line: line, Column: i + 1, Name: r.cols[i].Name,
 				Err: fmt.Errorf("%w (the file must be UTF-8 text)", ErrInvalidUTF8)}
 		}
@@ -221,8 +221,12 @@ type guard struct {
 	pendCR    bool // last byte seen was a CR, not yet known whether LF follows
 	comments  bool // '#' lines are comments
 	inComment bool
+	high      bool // a byte ≥ 0x80 has passed: fields need a UTF-8 check
 	err       error
 }
+
+// special are the bytes guard looks at one by one.
+var special = [256]bool{'\r': true, '\n': true, '"': true}
 
 func (g *guard) Read(p []byte) (int, error) {
 	for {
@@ -239,9 +243,41 @@ func (g *guard) Read(p []byte) (int, error) {
 			b = bytes.TrimPrefix(b, []byte("\xef\xbb\xbf"))
 			g.bomCheck = false
 		}
-		// Rewrite in place: CRLF and lone CR become LF (output never outgrows input).
+		off := n - len(b) // 3 after a dropped BOM, else 0
+		// Rewrite in place: CRLF and lone CR become LF (output never outgrows
+		// input). Runs of ordinary bytes are counted and moved in one step.
 		w := 0
-		for _, c := range b {
+		for i := 0; i < len(b); {
+			c := b[i]
+			if !special[c] {
+				if g.size == 0 {
+					g.recLine = g.line
+					// encoding/csv skips a comment line whole, quotes included.
+					g.inComment = g.comments && c == '#' && !g.inQuote
+				}
+				j := i
+				var acc byte
+				for j < len(b) && !special[b[j]] {
+					acc |= b[j]
+					j++
+				}
+				g.pendCR = false
+				if acc >= utf8.RuneSelf {
+					g.high = true
+				}
+				g.size += j - i
+				if g.size > g.max {
+					g.err = &tooLong{line: g.recLine, max: g.max}
+					return 0, g.err
+				}
+				if w != off+i {
+					copy(p[w:], b[i:j])
+				}
+				w += j - i
+				i = j
+				continue
+			}
+			i++
 			switch c {
 			case '\r':
 				p[w] = '\n'
@@ -262,16 +298,14 @@ func (g *guard) Read(p []byte) (int, error) {
 					return 0, g.err
 				}
 				continue
-			case '"':
-				if !g.inComment {
-					g.inQuote = !g.inQuote
-				}
+			}
+			// a quote
+			if !g.inComment {
+				g.inQuote = !g.inQuote
 			}
 			g.pendCR = false
 			if g.size == 0 {
 				g.recLine = g.line
-				// encoding/csv skips a comment line whole, quotes included.
-				g.inComment = g.comments && c == '#' && !g.inQuote
 			}
 			g.size++
 			if g.size > g.max {

@@ -3,8 +3,8 @@ package importers
 import (
 	"bytes"
 	stdcsv "encoding/csv"
-	"io"
 	"fmt"
+	"io"
 	"math/rand/v2"
 	"testing"
 

@@ -37,6 +37,7 @@
 // Example:
 //
 //	u, err := units.Parse("earthMass")   // u.Factor ≈ 5.97217e24, u.Dim == units.Mass
-//	err = units.Expect("mass", "km", kmUnit, units.Mass)
+//	km, _ := units.Parse("km")
+//	err = units.Expect("mass", "km", km, units.Mass)
 //	// "unit km is a length; mass wants a mass unit such as kg, earthMass"
 package units

@@ -76,8 +76,10 @@ func Read(name string, r io.Reader, opt Options) (*Result, error) {
 }
 
 // ReadStream is Read for files too large to hold as records: it calls emit
-// with each accepted record, in file order, instead of collecting them (the
-// record may be kept; it is not reused). Result.Records stays empty.
+// with each accepted record, in file order, instead of collecting them.
+// Result.Records stays empty. The *Record itself is reused after emit
+// returns; a shallow copy (*rec) may be kept, as its slices and strings are
+// never reused.
 //
 // Problems found after a record was emitted (a later duplicate, a later row's
 // conflicting planet value, a syntax error further on) still fail the whole

@@ -56,7 +56,8 @@
 // Options.SkipInvalid the good rows are kept and each bad row becomes a Reject
 // (its row, raw cells and reasons); WriteRejects writes them as a CSV report.
 // Problems with the header or the map, and unreadable files (broken quoting,
-// a row over 1 MiB), still fail the whole file.
+// a row over 1 MiB), still fail the whole file. A moon repeated later in the
+// file is a duplicate even when its first row was rejected: fix both.
 //
 // Names are stored in Unicode NFC, trimmed, with runs of white space
 // collapsed; case is kept for display (the store matches case-insensitively).

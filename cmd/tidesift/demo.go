@@ -9,7 +9,9 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"tidesift/export"
 	"tidesift/importers"
+	"tidesift/rank"
 	"tidesift/sampledata"
 	"tidesift/store"
 )
@@ -17,6 +19,7 @@ import (
 type demoOptions struct {
 	app *app
 	DB  string // catalog to build; "" builds one in a temporary directory
+	Out string // workbook to write
 }
 
 func newDemoCmd(a *app, runF func(context.Context, *demoOptions) error) *cobra.Command {
@@ -30,12 +33,16 @@ and eight moons of different kinds, and the cooler star Teodra with the giant
 Teodra b and four exomoon candidates with wide uncertainties and gaps. No value
 describes a real body.
 
-The catalog is built in a temporary file that is removed afterwards, unless
---db names a file to keep (an existing catalog there gets the demo as one more
-revision, or nothing if it has it already).
+The demo imports the scenario, lists it, ranks it under the default profile
+(ocean; 10,000 samples, seed 1) and writes a review workbook, tidesift-demo.xlsx
+in the working directory unless --out names another file. The catalog is built
+in a temporary file that is removed afterwards, unless --db names a file to
+keep (an existing catalog there gets the demo as one more revision, or nothing
+if it has it already).
 
 ` + cautions,
 		Example: `  tidesift demo
+  tidesift demo --out /path/to/review-demo.xlsx
   tidesift --db demo.db demo && tidesift --db demo.db show Ilmeth`,
 		Args: usageArgs(cobra.NoArgs),
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -48,6 +55,7 @@ revision, or nothing if it has it already).
 			return runDemo(cmd.Context(), opts)
 		},
 	}
+	cmd.Flags().StringVarP(&opts.Out, "out", "o", "tidesift-demo.xlsx", "workbook to write")
 	return cmd
 }
 
@@ -90,5 +98,31 @@ func runDemo(ctx context.Context, opts *demoOptions) error {
 	if err != nil {
 		return err
 	}
-	return writeListTable(w, cat, filterMoons(cat, "", ""))
+	if err := writeListTable(w, cat, filterMoons(cat, "", "")); err != nil {
+		return err
+	}
+
+	prof, err := loadProfile(defaultProfile)
+	if err != nil {
+		return err
+	}
+	f := rankFlags{Samples: rank.DefaultSamples, Seed: 1, Profile: defaultProfile}
+	ranking, err := opts.app.rankCatalog(ctx, cat, prof, f)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "\nRanking under the %q profile (%s):\n\n", prof.Name, prof.Description)
+	if err := export.WriteTable(w, ranking, export.TableOptions{}); err != nil {
+		return err
+	}
+	info, err := opts.app.workbookInfo()
+	if err != nil {
+		return err
+	}
+	if err := saveWorkbook(opts.Out, ranking, info); err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "\nWrote the review workbook %s (sheets: Ranking, Derived, Inputs, Drivers, Method).\n", opts.Out)
+	fmt.Fprintln(w, "Next: 'tidesift methods' for the method, 'tidesift profile list' for other profiles.")
+	return nil
 }

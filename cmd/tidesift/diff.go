@@ -7,16 +7,20 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"tidesift/export"
+	"tidesift/rank"
 	"tidesift/schema"
 	"tidesift/store"
 )
 
 type diffOptions struct {
-	app    *app
-	DB     string
+	app *app
+	DB  string
+	rankFlags
 	From   int64
 	To     int64
 	Format string
+	Rank   bool // also rank both revisions and show how targets moved
 }
 
 func newDiffCmd(a *app, runF func(context.Context, *diffOptions) error) *cobra.Command {
@@ -27,9 +31,13 @@ func newDiffCmd(a *app, runF func(context.Context, *diffOptions) error) *cobra.C
 		Short: "List the values added, removed and changed between two revisions",
 		Long: `List every value added, removed or changed between revisions REV_A and REV_B
 of the catalog ('tidesift revisions' lists them), with the body, the key and the
-old and new values with their uncertainties. 0 stands for the latest revision.`,
+old and new values with their uncertainties. 0 stands for the latest revision.
+
+With --rank, both revisions are also ranked under the same profile, seed and
+samples, and each target's move in median rank and score is listed.`,
 		Example: `  tidesift diff 1 2
-  tidesift diff 1 0 --format json`,
+  tidesift diff 1 0 --format json
+  tidesift diff 1 2 --rank --profile tidal --samples 2000`,
 		Args: usageArgs(cobra.ExactArgs(2)),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.DB = a.db
@@ -41,6 +49,9 @@ old and new values with their uncertainties. 0 stands for the latest revision.`,
 				}
 				*p = v
 			}
+			if err := opts.rankFlags.validate(cmd); err != nil {
+				return err
+			}
 			if runF != nil {
 				return runF(cmd.Context(), opts)
 			}
@@ -48,7 +59,31 @@ old and new values with their uncertainties. 0 stands for the latest revision.`,
 		},
 	}
 	cmd.Flags().VarP(format, "format", "f", "output format: table or json")
+	cmd.Flags().BoolVar(&opts.Rank, "rank", false, "also show how each target's rank and score moved")
+	addRankFlags(cmd, &opts.rankFlags, false)
 	return cmd
+}
+
+// diffDoc is the JSON form of diff.
+type diffDoc struct {
+	From      int64        `json:"from"`
+	To        int64        `json:"to"`
+	Changes   []changeJSON `json:"changes"`
+	RankMoves []moveJSON   `json:"rank_moves,omitempty"`
+	Profile   string       `json:"profile,omitempty"`
+	Samples   int          `json:"samples,omitempty"`
+	Seed      uint64       `json:"seed,omitempty"`
+}
+
+// moveJSON is one target's move between the two revisions; a rank of 0
+// means the target was not ranked at that revision.
+type moveJSON struct {
+	Name        string         `json:"name"`
+	Planet      string         `json:"planet"`
+	RankBefore  float64        `json:"rank_before"`
+	RankAfter   float64        `json:"rank_after"`
+	ScoreBefore rank.Quantiles `json:"score_before"`
+	ScoreAfter  rank.Quantiles `json:"score_after"`
 }
 
 // changeJSON is one value change in `diff --format json`, in SI units.
@@ -90,20 +125,61 @@ func runDiff(ctx context.Context, opts *diffOptions) error {
 	if err != nil {
 		return err
 	}
+	var moves []export.RankMove
+	var after *rank.Result
+	if opts.Rank {
+		prof, err := loadProfile(opts.Profile)
+		if err != nil {
+			return err
+		}
+		before, _, err := opts.app.rankAt(ctx, st, opts.From, prof, opts.rankFlags)
+		if err != nil {
+			return fmt.Errorf("ranking at revision %d: %w", opts.From, err)
+		}
+		var cat *schema.Catalog
+		after, cat, err = opts.app.rankAt(ctx, st, opts.To, prof, opts.rankFlags)
+		if err != nil {
+			return fmt.Errorf("ranking at revision %d: %w", opts.To, err)
+		}
+		moves = buildChanges(cat, nil, before, after).RankMoves
+	}
 	w := opts.app.Out
 	if opts.Format == "json" {
-		out := []changeJSON{}
+		doc := diffDoc{From: opts.From, To: opts.To, Changes: []changeJSON{}}
 		for _, c := range changes {
-			out = append(out, changeJSON{Change: changeKind(c), Kind: string(c.Kind), Body: c.Body, Parent: c.Parent,
+			doc.Changes = append(doc.Changes, changeJSON{Change: changeKind(c), Kind: string(c.Kind), Body: c.Body, Parent: c.Parent,
 				Key: c.Key, Old: paramJSON(c.Key, c.Old), New: paramJSON(c.Key, c.New)})
 		}
-		return writeJSON(w, out)
+		if after != nil {
+			doc.Profile, doc.Samples, doc.Seed = after.Profile, after.Samples, after.Seed
+			doc.RankMoves = []moveJSON{}
+			for _, m := range moves {
+				doc.RankMoves = append(doc.RankMoves, moveJSON(m))
+			}
+		}
+		return writeJSON(w, doc)
 	}
 	if len(changes) == 0 {
-		_, err := fmt.Fprintf(w, "no values differ between revisions %d and %d\n", opts.From, opts.To)
+		fmt.Fprintf(w, "no values differ between revisions %d and %d\n", opts.From, opts.To)
+	} else if err := writeChangesTable(w, changes); err != nil {
 		return err
 	}
-	return writeChangesTable(w, changes)
+	if after == nil {
+		return nil
+	}
+	fmt.Fprintf(w, "\nRank moves from revision %d to %d (profile %s, %d samples, seed %d; median ranks, 0 = not ranked):\n",
+		opts.From, opts.To, after.Profile, after.Samples, after.Seed)
+	tw := newTable(w)
+	fmt.Fprintln(tw, "NAME\tPLANET\tRANK\tSCORE")
+	for _, m := range moves {
+		fmt.Fprintf(tw, "%s\t%s\t%s → %s\t%s → %s\n", m.Name, m.Planet, num(m.RankBefore, 4), num(m.RankAfter, 4),
+			export.FormatRange(m.ScoreBefore, ""), export.FormatRange(m.ScoreAfter, ""))
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	_, err = fmt.Fprintln(w, export.Caution)
+	return err
 }
 
 func writeChangesTable(w interface{ Write([]byte) (int, error) }, changes []store.ValueChange) error {

@@ -5,8 +5,6 @@ import (
 	"fmt"
 
 	"github.com/spf13/cobra"
-
-	"tidesift/rank/method"
 )
 
 type methodsOptions struct{ app *app }
@@ -34,6 +32,6 @@ simplifications. The same text fills the Method sheet of an exported workbook.
 }
 
 func runMethods(_ context.Context, opts *methodsOptions) error {
-	_, err := fmt.Fprint(opts.app.Out, method.Text())
+	_, err := fmt.Fprint(opts.app.Out, methodsText())
 	return err
 }

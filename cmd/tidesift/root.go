@@ -114,6 +114,8 @@ func newRootCmd(a *app) *cobra.Command {
 		newHistoryCmd(a, nil),
 		newDiffCmd(a, nil),
 		newMethodsCmd(a, nil),
+		newRankCmd(a, nil),
+		newExportCmd(a, nil),
 	)
 	return root
 }

@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"tidesift/export"
+	"tidesift/rank/physics"
 	"tidesift/schema"
 )
 
@@ -20,6 +21,7 @@ type showOptions struct {
 	Planet   string
 	Format   string
 	Revision int64
+	Profile  string
 }
 
 func newShowCmd(a *app, runF func(context.Context, *showOptions) error) *cobra.Command {
@@ -61,20 +63,24 @@ Derived values are computed on simplified models at central values only; see
 	cmd.Flags().VarP(format, "format", "f", "output format: table, json or csv")
 	cmd.Flags().StringVar(&opts.Planet, "planet", "", "the moon's planet, when the name is ambiguous")
 	cmd.Flags().Int64Var(&opts.Revision, "rev", 0, "read the catalog as of this revision (0: latest)")
+	cmd.Flags().StringVar(&opts.Profile, "profile", defaultProfile, "profile whose priors fill missing inputs for the derived values")
 	return cmd
 }
 
 // showDoc is the JSON form of `show`.
 type showDoc struct {
-	Name            string         `json:"name"`
-	Planet          string         `json:"planet"`
-	Star            string         `json:"star"`
-	Aliases         []string       `json:"aliases,omitempty"`
-	CatalogRevision int64          `json:"catalog_revision"`
-	Inputs          []inputJSON    `json:"inputs"`
-	Derived         map[string]any `json:"derived"`
-	Notes           []string       `json:"notes,omitempty"`
-	params          map[string]schema.Param
+	Name            string      `json:"name"`
+	Planet          string      `json:"planet"`
+	Star            string      `json:"star"`
+	Aliases         []string    `json:"aliases,omitempty"`
+	CatalogRevision int64       `json:"catalog_revision"`
+	Inputs          []inputJSON `json:"inputs"`
+	Derived         any         `json:"derived"` // *physics.CentralValues, or {} when not computable
+	Notes           []string    `json:"notes,omitempty"`
+
+	params  map[string]schema.Param // catalog inputs and assumed ones, by key
+	central *physics.CentralValues
+	profile string
 }
 
 func runShow(ctx context.Context, opts *showOptions) error {
@@ -91,12 +97,28 @@ func runShow(ctx context.Context, opts *showOptions) error {
 	if err != nil {
 		return err
 	}
+	prof, err := loadProfile(opts.Profile)
+	if err != nil {
+		return err
+	}
+	central, assumed, notes, err := derivedAtCentral(cat, m, prof)
+	if err != nil {
+		return err
+	}
 	in := cat.Inputs(m)
+	for _, p := range assumed {
+		if _, ok := in[p.Key]; !ok && isCatalogKey(p.Key) {
+			in[p.Key] = p
+		}
+	}
 	doc := showDoc{
 		Name: m.Name, Planet: m.Parent, Star: cat.StarOf(m), Aliases: m.Aliases,
-		CatalogRevision: cat.Revision.ID, Inputs: inputsJSON(in), params: in,
+		CatalogRevision: cat.Revision.ID, Inputs: inputsJSON(in), Notes: notes,
+		params: in, central: central, profile: prof.Name, Derived: map[string]any{},
 	}
-	doc.Derived, doc.Notes = derivedAtCentral(cat, m)
+	if central != nil {
+		doc.Derived = central
+	}
 	w := opts.app.Out
 	switch opts.Format {
 	case "json":
@@ -126,7 +148,11 @@ func writeShowTable(w io.Writer, doc showDoc) error {
 		if unc == "" {
 			unc = "-"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%d\t%s\n", k, num(p.Value/f, 6), unc, orDash(unit), p.Status, p.Revision, orDash(p.Source))
+		rev := "-"
+		if p.Revision != 0 {
+			rev = strconv.FormatInt(p.Revision, 10)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", k, num(p.Value/f, 6), unc, orDash(unit), p.Status, rev, orDash(p.Source))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -165,4 +191,11 @@ func joinComma(ss []string) string {
 		out += s
 	}
 	return out
+}
+
+// isCatalogKey reports whether key is a catalog key (profile priors may also
+// set model parameters such as the rock density, which are not inputs).
+func isCatalogKey(key string) bool {
+	_, ok := schema.LookupKey(key)
+	return ok
 }

@@ -1,0 +1,191 @@
+package main
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// Options → output: each command run against a catalog in t.TempDir().
+
+// writeFile writes content to name in dir and returns its path.
+func writeFile(tb testing.TB, dir, name, content string) string {
+	tb.Helper()
+	p := filepath.Join(dir, name)
+	if err := os.WriteFile(p, []byte(content), 0o644); err != nil {
+		tb.Fatal(err)
+	}
+	return p
+}
+
+func readFixture(tb testing.TB, name string) string {
+	tb.Helper()
+	b, err := os.ReadFile(filepath.Join("testdata", name))
+	if err != nil {
+		tb.Fatal(err)
+	}
+	return string(b)
+}
+
+func closeTo(got, want, rel float64) bool {
+	return math.Abs(got-want) <= rel*math.Abs(want)
+}
+
+func TestImportListShow(t *testing.T) {
+	ta := newTestApp(t)
+	f := writeFile(t, t.TempDir(), "moons.csv", readFixture(t, "moons.csv"))
+	out := mustRun(t, ta, "import", f, "--note", "first")
+	if !strings.Contains(out, "revision 1: 3 rows") {
+		t.Errorf("import output %q, want it to report revision 1 with 3 rows", out)
+	}
+
+	// list --format json: every moon with every input in SI.
+	var doc listDoc
+	if err := json.Unmarshal([]byte(mustRun(t, ta, "list", "--format", "json")), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.CatalogRevision != 1 || len(doc.Moons) != 3 {
+		t.Fatalf("list json: revision %d, %d moons; want 1 and 3", doc.CatalogRevision, len(doc.Moons))
+	}
+	arlune := doc.Moons[0]
+	if arlune.Name != "Arlune" || arlune.Planet != "Pavrin c" || arlune.Star != "Pavrin" {
+		t.Fatalf("first moon %+v", arlune)
+	}
+	inputs := map[string]inputJSON{}
+	for _, in := range arlune.Inputs {
+		inputs[in.Key] = in
+	}
+	// 1600 km; 4.2 au with the IAU 2012 au = 149 597 870 700 m.
+	if r := inputs["radius"]; !closeTo(r.Value, 1.6e6, 1e-12) || r.Unit != "m" || !closeTo(r.Uncertainty.Sigma, 5e3, 1e-12) {
+		t.Errorf("radius %+v, want 1.6e6 m ± 5e3", r)
+	}
+	if d := inputs["star_distance"]; !closeTo(d.Value, 4.2*149_597_870_700, 1e-12) || d.Revision != 1 || d.Status != "measured" {
+		t.Errorf("star_distance %+v", d)
+	}
+	if k := inputs["k2_q"]; k.Uncertainty.Kind.String() != "factor" || k.Source != "invented: assumed for the test" {
+		t.Errorf("k2_q %+v, want a ×/÷ factor with its own source", k)
+	}
+
+	// list table: display units, '-' for missing values.
+	table := mustRun(t, ta, "list")
+	for _, want := range []string{"RADIUS [km]", "1600 ± 5", "Betrix", "-"} {
+		if !strings.Contains(table, want) {
+			t.Errorf("list table lacks %q:\n%s", want, table)
+		}
+	}
+
+	// show: matched case-insensitively; JSON has inputs and derived.
+	var sd map[string]json.RawMessage
+	if err := json.Unmarshal([]byte(mustRun(t, ta, "show", "  ARLUNE ", "--format", "json")), &sd); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"name", "planet", "star", "inputs", "derived"} {
+		if _, ok := sd[k]; !ok {
+			t.Errorf("show json lacks %q", k)
+		}
+	}
+
+	// show csv: one row per input, header first.
+	rows, err := csv.NewReader(strings.NewReader(mustRun(t, ta, "show", "Betrix", "--format", "csv"))).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rows[0][0] != "key" || len(rows) < 8 {
+		t.Errorf("show csv: %d rows, header %v", len(rows), rows[0])
+	}
+}
+
+func TestImportRefusedWritesNothing(t *testing.T) {
+	ta := newTestApp(t)
+	dir := t.TempDir()
+	good := writeFile(t, dir, "good.csv", readFixture(t, "moons.csv"))
+	bad := writeFile(t, dir, "bad.csv", "name,planet,radius [km],eccentricity\nElvar,Pavrin c,600,1.2\nFennick,Pavrin c,-3,0.1\n")
+	ta.out.Reset()
+	if code := runCLI(t, ta, "import", good, bad); code != exitRefused {
+		t.Fatalf("exit %d, want %d; stderr:\n%s", code, exitRefused, ta.errOut)
+	}
+	msg := ta.errOut.String()
+	for _, want := range []string{"nothing was written", `bad.csv: row 2, column "eccentricity"`, `bad.csv: row 3, column "radius [km]"`} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("refusal lacks %q:\n%s", want, msg)
+		}
+	}
+	if ta.out.Len() != 0 {
+		t.Errorf("refused import printed to stdout: %q", ta.out)
+	}
+	// The good file was not imported either: not even the catalog exists.
+	if _, err := os.Stat(ta.dbPath); err == nil {
+		t.Errorf("a refused import created the catalog")
+	}
+}
+
+func TestImportDryRunAndNoop(t *testing.T) {
+	ta := newTestApp(t)
+	f := writeFile(t, t.TempDir(), "moons.csv", readFixture(t, "moons.csv"))
+	if out := mustRun(t, ta, "import", "--dry-run", f); !strings.Contains(out, "dry run, nothing written") {
+		t.Errorf("dry run output %q", out)
+	}
+	if out := mustRun(t, ta, "revisions"); !strings.Contains(out, "no revisions yet") {
+		t.Errorf("a dry run wrote a revision:\n%s", out)
+	}
+	mustRun(t, ta, "import", f)
+	if out := mustRun(t, ta, "import", f); !strings.Contains(out, "unchanged: already imported as revision 1") {
+		t.Errorf("re-import output %q", out)
+	}
+}
+
+func TestShowAmbiguousAndMissing(t *testing.T) {
+	ta := newTestApp(t)
+	f := writeFile(t, t.TempDir(), "twins.csv", "name,planet,radius [km]\nTwin,Alpha b,500\nTwin,Beta b,600\n")
+	mustRun(t, ta, "import", f)
+	if code := runCLI(t, ta, "show", "twin"); code != exitUsage {
+		t.Errorf("ambiguous show: exit %d, want %d", code, exitUsage)
+	}
+	if msg := ta.errOut.String(); !strings.Contains(msg, "Twin of Alpha b, Twin of Beta b; choose one with --planet") {
+		t.Errorf("ambiguity message %q", msg)
+	}
+	if out := mustRun(t, ta, "show", "twin", "--planet", "beta B"); !strings.Contains(out, "Twin, moon of Beta b") {
+		t.Errorf("show --planet: %q", out)
+	}
+	ta.errOut.Reset()
+	if code := runCLI(t, ta, "show", "Nobody"); code != exitError || !strings.Contains(ta.errOut.String(), `no moon named "Nobody"`) {
+		t.Errorf("missing moon: exit %d, stderr %q", code, ta.errOut)
+	}
+}
+
+func TestListCSVRoundTrip(t *testing.T) {
+	ta := newTestApp(t)
+	dir := t.TempDir()
+	mustRun(t, ta, "import", writeFile(t, dir, "moons.csv", readFixture(t, "moons.csv")))
+	before := mustRun(t, ta, "list", "--format", "json")
+	again := writeFile(t, dir, "again.csv", mustRun(t, ta, "list", "--format", "csv"))
+	if out := mustRun(t, ta, "import", again); !strings.Contains(out, "no revision made") {
+		t.Errorf("re-importing list --format csv changed the catalog: %q", out)
+	}
+	if after := mustRun(t, ta, "list", "--format", "json"); after != before {
+		t.Errorf("catalog changed by the round trip:\nbefore %s\nafter %s", before, after)
+	}
+}
+
+func TestDemoBuildsInvented(t *testing.T) {
+	ta := newTestApp(t)
+	// No --db: the demo builds its catalog in a temporary directory.
+	root := newRootCmd(ta.app)
+	root.SetArgs([]string{"demo", "--out", filepath.Join(t.TempDir(), "demo.xlsx")})
+	if code := report(ta.errOut, root.Execute()); code != 0 {
+		t.Fatalf("demo: exit %d\n%s", code, ta.errOut)
+	}
+	out := ta.out.String()
+	for _, want := range []string{"INVENTED", "Varkesh", "Ilmeth", "Teodra b IV", "temporary file"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("demo output lacks %q:\n%s", want, out)
+		}
+	}
+	if _, err := os.Stat("tidesift.db"); err == nil {
+		t.Errorf("demo without --db left a catalog at the default path")
+	}
+}

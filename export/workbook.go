@@ -182,6 +182,8 @@ type book struct {
 	header int            // bold header cells
 	title  int            // section titles on the Changes and Method sheets
 	mono   int            // the profile TOML
+	wrap   int            // wrapped text on the Method sheet
+	left   int            // left-aligned values on the Method sheet
 	numFmt map[string]int // number format → style
 }
 
@@ -202,7 +204,7 @@ func newBook() (*book, error) {
 		Font:      &excelize.Font{Bold: true},
 		Fill:      excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{"#DDE4EE"}},
 		Border:    []excelize.Border{{Type: "bottom", Color: "#7F8FA6", Style: 1}},
-		Alignment: &excelize.Alignment{Vertical: "center"},
+		Alignment: &excelize.Alignment{Vertical: "top", WrapText: true},
 	}); err != nil {
 		return nil, err
 	}
@@ -210,6 +212,15 @@ func newBook() (*book, error) {
 		return nil, err
 	}
 	if b.mono, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Family: "Courier New"}}); err != nil {
+		return nil, err
+	}
+	if b.wrap, err = f.NewStyle(&excelize.Style{Alignment: &excelize.Alignment{WrapText: true, Vertical: "top"}}); err != nil {
+		return nil, err
+	}
+	if b.left, err = f.NewStyle(&excelize.Style{Alignment: &excelize.Alignment{Horizontal: "left"}}); err != nil {
+		return nil, err
+	}
+	if b.numFmt[fmtCentred], err = f.NewStyle(&excelize.Style{Alignment: &excelize.Alignment{Horizontal: "center"}}); err != nil {
 		return nil, err
 	}
 	for _, nf := range []string{fmtPower, fmtKelvin, fmtWhole, fmtProb, fmtShare, "0"} {
@@ -222,6 +233,10 @@ func newBook() (*book, error) {
 	}
 	return b, nil
 }
+
+// fmtCentred is not a number format but a centred text column (the rank
+// interval, which would otherwise run into the rank beside it).
+const fmtCentred = "centred text"
 
 // column is one column of a data sheet.
 type column struct {
@@ -240,15 +255,18 @@ type table struct {
 	freezeCols int                          // leading columns kept in view
 	filterRows int                          // data rows under the autofilter (0: all)
 	filterCols int                          // columns under the autofilter (0: all)
+	fitWidth   bool                         // print all columns on one page width
 	// extras runs after the rows and before Flush (the only point where
 	// conditional formats, autofilters and charts survive on a streamed sheet).
 	extras func(sw *excelize.StreamWriter, lastRow int) error
 }
 
 func (b *book) stream(t table) error {
+	// Headers wrap: a column is as wide as its content, its header's longest
+	// word, or a short header, whichever is widest.
 	widths := make([]float64, len(t.cols))
 	for j, c := range t.cols {
-		widths[j] = float64(textWidth(c.header)) * 1.1 // bold
+		widths[j] = headerWidth(c.header)
 	}
 	buf := make([]any, 0, len(t.cols))
 	for i := 0; i < t.rows; i++ {
@@ -273,6 +291,13 @@ func (b *book) stream(t table) error {
 	if err := b.f.SetSheetDimension(t.sheet, "A1:"+last); err != nil {
 		return err
 	}
+	if t.fitWidth {
+		// Sheet properties are written when the stream writer starts.
+		fit := true
+		if err := b.f.SetSheetProps(t.sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
+			return err
+		}
+	}
 	sw, err := b.f.NewStreamWriter(t.sheet)
 	if err != nil {
 		return err
@@ -296,12 +321,14 @@ func (b *book) stream(t table) error {
 		}
 	}
 	head := make([]any, len(t.cols))
+	lines := 1
 	for j, c := range t.cols {
 		if c.header != "" {
 			head[j] = excelize.Cell{StyleID: b.header, Value: SafeText(c.header)}
+			lines = max(lines, headerLines(c.header, fitWidth(widths[j])))
 		}
 	}
-	if err := sw.SetRow(cellName(1, headRow), head); err != nil {
+	if err := sw.SetRow(cellName(1, headRow), head, excelize.RowOpts{Height: 15 * float64(lines)}); err != nil {
 		return err
 	}
 	for i := 0; i < t.rows; i++ {
@@ -322,14 +349,21 @@ func (b *book) stream(t table) error {
 			return err
 		}
 	}
-	// Printing: landscape, with the header rows repeated on every page.
-	landscape := "landscape"
-	if err := b.f.SetPageLayout(t.sheet, &excelize.PageLayoutOptions{Orientation: &landscape}); err != nil {
+	// Printing: landscape, with the header rows (and the key columns kept in
+	// view) repeated on every page.
+	layout := &excelize.PageLayoutOptions{Orientation: ptr("landscape")}
+	if t.fitWidth {
+		layout.FitToWidth, layout.FitToHeight = ptr(1), ptr(0)
+	}
+	if err := b.f.SetPageLayout(t.sheet, layout); err != nil {
 		return err
 	}
-	if err := b.f.SetDefinedName(&excelize.DefinedName{
-		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("%s!$1:$%d", sheetRef(t.sheet), headRow), Scope: t.sheet,
-	}); err != nil {
+	titles := fmt.Sprintf("%s!$1:$%d", sheetRef(t.sheet), headRow)
+	if t.freezeCols > 0 {
+		lastKey, _ := excelize.ColumnNumberToName(t.freezeCols)
+		titles = fmt.Sprintf("%s!$A:$%s,%s", sheetRef(t.sheet), lastKey, titles)
+	}
+	if err := b.f.SetDefinedName(&excelize.DefinedName{Name: "_xlnm.Print_Titles", RefersTo: titles, Scope: t.sheet}); err != nil {
 		return err
 	}
 	if t.extras != nil {
@@ -346,6 +380,38 @@ func cellName(col, row int) string {
 		panic(err) // programmer error: coordinates are computed here
 	}
 	return s
+}
+
+func ptr[T any](v T) *T { return &v }
+
+// headerWidth is the width a header asks of its column when it may wrap: its
+// longest word, or all of it when short.
+func headerWidth(h string) float64 {
+	const short = 12
+	longest := 0
+	for _, w := range strings.Fields(h) {
+		longest = max(longest, textWidth(w))
+	}
+	return 1.1 * float64(max(longest, min(textWidth(h), short))) // bold
+}
+
+// headerLines estimates how many lines a wrapped header takes in a column of
+// the given width, for the header row's height.
+func headerLines(h string, width float64) int {
+	lines, cur := 1, 0.0
+	for _, w := range strings.Fields(h) {
+		ww := 1.1 * float64(textWidth(w))
+		switch {
+		case cur == 0:
+			cur = ww
+		case cur+1+ww <= width-1:
+			cur += 1 + ww
+		default:
+			lines++
+			cur = ww
+		}
+	}
+	return min(lines, 5)
 }
 
 // freeze keeps the first rows and cols in view.
@@ -453,7 +519,7 @@ const rankingCols = 24
 func rankingColumns(r *rank.Result) []column {
 	return []column{
 		{"Rank (median)", fmtRank},
-		{"Rank interval (5–95 %)", ""},
+		{"Rank interval (5–95 %)", fmtCentred},
 		{"Name", ""},
 		{"Planet", ""},
 		{"Star", ""},
@@ -618,7 +684,7 @@ func (b *book) inputs(r *rank.Result) error {
 		}
 	}
 	return b.stream(table{
-		sheet: SheetInputs, cols: cols, rows: len(refs), freezeCols: 3,
+		sheet: SheetInputs, cols: cols, rows: len(refs), freezeCols: 3, fitWidth: true,
 		row: func(i int, row []any) []any {
 			t := &r.Targets[refs[i].t]
 			p := &t.Inputs[refs[i].p]
@@ -755,6 +821,7 @@ func (b *book) changes(c *Changes, since int64) error {
 	}
 	return b.stream(table{
 		sheet:      SheetChanges,
+		fitWidth:   true,
 		title:      fmt.Sprintf("How each target's rank and score moved since catalog revision %d", since),
 		cols:       cols,
 		rows:       nMoves + 3 + nIn, // moves, blank, title, header, inputs
@@ -856,50 +923,74 @@ var cautionLines = []string{
 	"Inputs marked assumed were filled in from the scoring profile's priors at ranking time; they were never measured.",
 }
 
+// Method sheet layout: section titles and labels in column A, text and
+// values in column B, which wraps.
+const (
+	methodLabelWidth = 34
+	methodTextWidth  = 100
+)
+
 func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 	const sheet = SheetMethod
 	f := b.f
 	row := 0
 	var err error
-	put := func(style int, vals ...any) {
+	// put writes one row: a label (column A, in style labelStyle) and a value
+	// (column B, in style valueStyle; long text wraps and the row grows).
+	put := func(label string, labelStyle int, value any, valueStyle int) {
 		row++
 		if err != nil {
 			return
 		}
-		for j, v := range vals {
-			cell := cellName(j+1, row)
-			switch x := v.(type) {
-			case string:
-				if x == "" {
-					continue
-				}
-				err = f.SetCellStr(sheet, cell, SafeText(x))
-			case int:
-				err = f.SetCellInt(sheet, cell, int64(x))
-			case int64:
-				err = f.SetCellInt(sheet, cell, x)
-			}
-			if err == nil && style != 0 {
-				err = f.SetCellStyle(sheet, cell, cell, style)
-			}
-			if err != nil {
-				return
+		a, bc := cellName(1, row), cellName(2, row)
+		if label != "" {
+			if err = f.SetCellStr(sheet, a, SafeText(label)); err == nil && labelStyle != 0 {
+				err = f.SetCellStyle(sheet, a, a, labelStyle)
 			}
 		}
+		if err != nil {
+			return
+		}
+		switch x := value.(type) {
+		case string:
+			if x == "" {
+				return
+			}
+			if err = f.SetCellStr(sheet, bc, SafeText(x)); err != nil {
+				return
+			}
+			if lines := wrappedLines(x, methodTextWidth); lines > 1 && valueStyle == b.wrap {
+				err = f.SetRowHeight(sheet, row, 15*float64(lines))
+			}
+		case int:
+			err = f.SetCellInt(sheet, bc, int64(x))
+		case int64:
+			err = f.SetCellInt(sheet, bc, x)
+		case nil:
+			return
+		}
+		if err == nil && valueStyle != 0 {
+			err = f.SetCellStyle(sheet, bc, bc, valueStyle)
+		}
 	}
-	labelWidth := 0
-	kv := func(label string, v any) {
-		labelWidth = max(labelWidth, textWidth(label))
-		put(0, label, v)
+	section := func(title string, lines []string, style int) {
+		for i, l := range lines {
+			if i == 0 {
+				put(title, b.header, l, style)
+				continue
+			}
+			put("", 0, l, style)
+		}
+		if len(lines) == 0 {
+			put(title, b.header, nil, 0)
+		}
+		put("", 0, nil, 0)
 	}
-	put(b.title, "tidesift review workbook: method, provenance and cautions")
-	put(0)
-	put(b.header, "Cautions")
-	for _, l := range cautionLines {
-		put(0, l)
-	}
-	put(0)
-	put(b.header, "Run")
+	put("tidesift review workbook: method, provenance and cautions", b.title, nil, 0)
+	put("", 0, nil, 0)
+	section("Cautions", cautionLines, b.wrap)
+	put("Run", b.header, nil, 0)
+	kv := func(label string, v any) { put(label, 0, v, b.left) }
 	kv("Scoring profile", r.Profile)
 	kv("Seed", strconv.FormatUint(r.Seed, 10)) // text: a uint64 does not fit a spreadsheet number
 	kv("Monte Carlo samples", r.Samples)
@@ -927,33 +1018,46 @@ func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 		goarch = runtime.GOARCH
 	}
 	kv("GOARCH of the ranking", goarch)
-	put(0)
-	put(b.header, "Reading the workbook")
-	for _, l := range readingGuide(r) {
-		put(0, l)
-	}
-	put(0)
-	put(b.header, "Simplifications")
-	for _, l := range Simplifications {
-		put(0, l)
-	}
-	put(0)
-	put(b.header, "Method")
-	for _, l := range splitLines(info.Method) {
-		put(0, l)
-	}
-	put(0)
-	put(b.header, "Scoring profile (TOML, in full)")
-	for _, l := range splitLines(r.ProfileTOML) {
-		put(b.mono, l)
-	}
+	put("", 0, nil, 0)
+	section("Reading the workbook", readingGuide(r), b.wrap)
+	section("Simplifications", Simplifications, b.wrap)
+	section("Method", splitLines(info.Method), b.wrap)
+	section("Scoring profile (TOML, in full)", splitLines(r.ProfileTOML), b.mono)
 	if err != nil {
 		return err
 	}
-	if err := f.SetColWidth(sheet, "A", "A", fitWidth(float64(labelWidth))); err != nil {
+	if err := f.SetColWidth(sheet, "A", "A", methodLabelWidth); err != nil {
 		return err
 	}
-	return f.SetColWidth(sheet, "B", "B", 70)
+	if err := f.SetColWidth(sheet, "B", "B", methodTextWidth); err != nil {
+		return err
+	}
+	fit := true
+	if err := f.SetSheetProps(sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
+		return err
+	}
+	return f.SetPageLayout(sheet, &excelize.PageLayoutOptions{Orientation: ptr("landscape"), FitToWidth: ptr(1), FitToHeight: ptr(0)})
+}
+
+// wrappedLines estimates the lines text takes when wrapped in a column of
+// width characters. A column width counts digit widths; running text in a
+// proportional font fits about a tenth more characters.
+func wrappedLines(s string, width int) int {
+	capacity := width * 11 / 10
+	lines, cur := 1, 0
+	for _, w := range strings.Fields(s) {
+		n := textWidth(w)
+		switch {
+		case cur == 0:
+			cur = n
+		case cur+1+n <= capacity-2:
+			cur += 1 + n
+		default:
+			lines++
+			cur = n
+		}
+	}
+	return lines
 }
 
 // splitLines splits text into lines, dropping one trailing empty line.

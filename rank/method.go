@@ -82,9 +82,11 @@ Drivers. For each moon the share of its score variance owed to each uncertain
 input is its first-order sensitivity index S_i = V(E[score | X_i]) / V(score)
 (Sobol' 1993), estimated from the same samples without further model runs by
 the given-data binning estimator of Plischke, Borgonovo & Smith (2013): the
-range of X_i is cut into M classes of equal probability (M = floor(sqrt(N)/3)
-within 2..50, 33 for 10,000 samples; class edges from the input
-distribution's quantiles), and S_i is the between-class variance of the class
+range of X_i between the 0.5 % and 99.5 % quantiles of its distribution is
+cut into M classes of equal width (M = floor(sqrt(N)/3) within 2..50, 33 for
+10,000 samples; equal width in log X_i for log-normal and log-uniform inputs,
+so that classes hold similar shares of the samples; values beyond the ends
+join the end classes), and S_i is the between-class variance of the class
 means of the score over its total variance, corrected for its noise bias by
 Kelley's (1935) adjustment and clipped to [0, 1]. Shares need not add to 1:
 the remainder is owed to interactions between inputs. The input with the

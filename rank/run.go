@@ -17,6 +17,7 @@ import (
 	"tidesift/rank/profile"
 	"tidesift/rank/sensitivity"
 	"tidesift/rank/stats"
+	"tidesift/rank/uncertain"
 	"tidesift/schema"
 )
 
@@ -306,17 +307,18 @@ var bufferedNames = [numBuffered]string{
 // worker holds one goroutine's buffers, reused from target to target, so the
 // sample loop allocates nothing.
 type worker struct {
-	S       int
-	prof    *profile.Profile
-	src     rand.PCG
-	rng     *rand.Rand
-	cols    [][]float64
-	metric  [numBuffered][]float64
-	score   []float64
-	acc     []*sensitivity.Accumulator
-	classes int
-	d       physics.Derived
-	in      physics.Inputs
+	S         int
+	prof      *profile.Profile
+	src       rand.PCG
+	rng       *rand.Rand
+	cols      [][]float64
+	metric    [numBuffered][]float64
+	score     []float64
+	acc       []*sensitivity.Accumulator
+	uncertain []int
+	classes   int
+	d         physics.Derived
+	in        physics.Inputs
 }
 
 func newWorker(S int, prof *profile.Profile) *worker {
@@ -333,16 +335,17 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 	S := w.S
 	for len(w.cols) < len(p.slots) {
 		w.cols = append(w.cols, make([]float64, ChunkSize))
-		w.acc = append(w.acc, sensitivity.NewAccumulator(nil))
+		w.acc = append(w.acc, sensitivity.NewAccumulator(sensitivity.Partition{M: 1, Lo: 0, Hi: 1}))
 	}
-	// Sensitivity classes from each uncertain input's own quantiles.
-	var uncertainSlots []int
+	// Sensitivity classes from each uncertain input's own distribution.
+	uncertainSlots := w.uncertain[:0]
 	for s, sl := range p.slots {
 		if !sl.dist.Fixed() {
 			uncertainSlots = append(uncertainSlots, s)
-			w.acc[s].Reset(sensitivity.Edges(sl.dist.Quantile, w.classes))
+			w.acc[s].Reset(partition(sl.dist, w.classes))
 		}
 	}
+	w.uncertain = uncertainSlots
 	var ocean int
 	var retained [physics.NumVolatiles]int
 	var flagCount [32]int
@@ -367,13 +370,9 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			w.metric[mEscapeVelocity][g] = d.EscapeVelocity
 			w.metric[mWaterLayer][g] = d.WaterLayerThickness
 			w.metric[mIceShell][g] = d.IceShellThickness
-			if d.OceanQualifies {
-				ocean++
-			}
-			for v := range physics.NumVolatiles {
-				if d.Retained[v] {
-					retained[v]++
-				}
+			ocean += b2i(d.OceanQualifies)
+			for v, r := range d.Retained {
+				retained[v] += b2i(r)
 			}
 			for f := d.Flags; f != 0; f &= f - 1 {
 				flagCount[bits.TrailingZeros32(uint32(f))]++
@@ -387,10 +386,7 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			row[g] = float32(sc)
 		}
 		for _, s := range uncertainSlots {
-			a, xs, ys := w.acc[s], w.cols[s][:n], w.score[g0:g0+n]
-			for i, x := range xs {
-				a.Add(x, ys[i])
-			}
+			w.acc[s].AddAll(w.cols[s][:n], w.score[g0:g0+n])
 		}
 	}
 
@@ -429,7 +425,7 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 
 	var notes []string
 	q := func(m int) Quantiles {
-		s := stats.Summarize(w.metric[m])
+		s := stats.Quantiles3(w.metric[m])
 		if s.N < S {
 			notes = append(notes, fmt.Sprintf("%s: not computable in %s of samples", bufferedNames[m], percent(S-s.N, S)))
 		}
@@ -466,6 +462,27 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			out.Flags[physics.Flag(1<<b).String()] = float64(c) / float64(S)
 		}
 	}
+}
+
+// partition spans the 0.5 %–99.5 % quantiles of d with equal-width classes,
+// on a log scale for the log-normal and log-uniform laws (whose classes of
+// equal probability are of equal width in log x).
+func partition(d uncertain.Dist, m int) sensitivity.Partition {
+	p := sensitivity.Partition{M: m, Lo: d.Quantile(0.005), Hi: d.Quantile(0.995)}
+	switch d.(type) {
+	case *uncertain.LogNormal, uncertain.LogUniform:
+		p.Log = p.Lo > 0
+	case uncertain.Uniform:
+		p.Lo, p.Hi = d.Quantile(0), d.Quantile(1)
+	}
+	return p
+}
+
+func b2i(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
 }
 
 func percent(n, of int) string {

@@ -198,12 +198,24 @@ func (c *Criterion) Apply(x float64) float64 {
 	}
 	switch c.kind {
 	case tLogRamp:
-		if x <= 0 {
-			x = math.Inf(-1)
+		// Outside [lo, hi] the answer needs no logarithm (most samples of
+		// a wide prior fall there); x ≤ 0 counts as −∞.
+		if c.Lo < c.Hi {
+			if x <= c.Lo {
+				return 0
+			}
+			if x >= c.Hi {
+				return 1
+			}
 		} else {
-			x = math.Log10(x)
+			if x >= c.Lo {
+				return 0
+			}
+			if x <= c.Hi {
+				return 1
+			}
 		}
-		return ramp(x, c.logLo, c.logHi)
+		return ramp(math.Log10(x), c.logLo, c.logHi)
 	case tWindow:
 		switch {
 		case x < c.Lo:

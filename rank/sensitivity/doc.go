@@ -17,10 +17,12 @@
 // (1935) adjustment of the correlation ratio, so an input that does not matter
 // gets a share near 0 rather than near (M − 1)/n; ClassCount sets M.
 //
-// The engine streams: it fixes class edges from each input distribution's
-// quantiles (Edges), adds (xᵢ, y) pairs to an Accumulator per input as samples
-// are evaluated, and reads the index at the end (Accumulator.Index). FirstOrder
-// does the same from stored samples, ranking x to form the classes.
+// The engine streams: it fixes a Partition of each input's range from its
+// distribution (equal-width classes between the 0.5 % and 99.5 % quantiles,
+// on a log scale for log-normal and log-uniform inputs), adds (xᵢ, y) pairs to
+// an Accumulator per input as samples are evaluated, and reads the index at
+// the end (Accumulator.Index). FirstOrder works from stored samples instead,
+// ranking x to form classes of equal size.
 //
 //	s := sensitivity.FirstOrder(x1, y, sensitivity.ClassCount(len(y)))
 package sensitivity

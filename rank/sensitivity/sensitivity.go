@@ -14,60 +14,92 @@ func ClassCount(n int) int {
 	return max(2, min(50, m))
 }
 
-// Edges returns the M−1 inner class edges q(1/M), …, q((M−1)/M) of a
-// distribution given by its quantile function.
-func Edges(quantile func(p float64) float64, m int) []float64 {
-	e := make([]float64, m-1)
-	for i := range e {
-		e[i] = quantile(float64(i+1) / float64(m))
-	}
-	return e
+// Partition cuts the range of an input into M classes of equal width, on a
+// linear scale or on a logarithmic one, with values beyond either end put in
+// the end classes. Finding a class costs a multiply, not a search, which
+// matters at 10⁸ samples × inputs. The estimator holds for any partition;
+// classes of roughly equal probability make it most efficient, so the engine
+// puts the ends at the 0.5 % and 99.5 % quantiles of each input's
+// distribution and takes the log scale for log-normal and log-uniform inputs.
+type Partition struct {
+	M      int     // number of classes, ≥ 1
+	Lo, Hi float64 // range covered by the classes (Lo < Hi, both > 0 on a log scale)
+	Log    bool    // equal widths in log x (x ≤ 0 goes to the first class)
 }
 
-// Class returns the class of x for inner edges e: the number of edges ≤ x.
-func Class(e []float64, x float64) int {
-	lo, hi := 0, len(e)
-	for lo < hi {
-		mid := int(uint(lo+hi) >> 1)
-		if e[mid] <= x {
-			lo = mid + 1
-		} else {
-			hi = mid
+// key is the scale the classes are equal on. The log scale uses the bit
+// pattern of the (positive) float as an integer, which is increasing in x and
+// within 0.09 of 2⁵²·(log₂x + 1023) — a logarithm to well within a class width.
+func (p Partition) key(x float64) float64 {
+	if p.Log {
+		if !(x > 0) {
+			return 0
 		}
+		return float64(math.Float64bits(x))
 	}
-	return lo
+	return x
 }
 
 // Accumulator collects Σy and the count per class for one input.
 type Accumulator struct {
-	Edges []float64
-	Sum   []float64
-	Count []int64
+	Part      Partition
+	Sum       []float64
+	Count     []int64
+	lo, scale float64
 }
 
-// NewAccumulator returns an empty accumulator over the classes of edges.
-func NewAccumulator(edges []float64) *Accumulator {
-	m := len(edges) + 1
-	return &Accumulator{Edges: edges, Sum: make([]float64, m), Count: make([]int64, m)}
+// NewAccumulator returns an empty accumulator over the classes of p.
+func NewAccumulator(p Partition) *Accumulator {
+	a := &Accumulator{}
+	a.Reset(p)
+	return a
 }
 
-// Reset empties the accumulator and gives it new edges (of the same count or fewer).
-func (a *Accumulator) Reset(edges []float64) {
-	m := len(edges) + 1
-	if cap(a.Sum) < m {
-		a.Sum = make([]float64, m)
-		a.Count = make([]int64, m)
+// Reset empties the accumulator and gives it a new partition.
+func (a *Accumulator) Reset(p Partition) {
+	p.M = max(p.M, 1)
+	if cap(a.Sum) < p.M {
+		a.Sum = make([]float64, p.M)
+		a.Count = make([]int64, p.M)
 	}
-	a.Edges, a.Sum, a.Count = edges, a.Sum[:m], a.Count[:m]
+	a.Part, a.Sum, a.Count = p, a.Sum[:p.M], a.Count[:p.M]
 	clear(a.Sum)
 	clear(a.Count)
+	a.lo = p.key(p.Lo)
+	w := p.key(p.Hi) - a.lo
+	a.scale = 0
+	if w > 0 && !math.IsInf(w, 0) {
+		a.scale = float64(p.M) / w
+	}
+}
+
+// Class returns the class of x, 0 … M−1.
+func (a *Accumulator) Class(x float64) int {
+	t := (a.Part.key(x) - a.lo) * a.scale
+	switch {
+	case !(t > 0): // also NaN
+		return 0
+	case t >= float64(a.Part.M):
+		return a.Part.M - 1
+	}
+	return int(t)
 }
 
 // Add records one sample.
 func (a *Accumulator) Add(x, y float64) {
-	c := Class(a.Edges, x)
+	c := a.Class(x)
 	a.Sum[c] += y
 	a.Count[c]++
+}
+
+// AddAll records the samples (xs[i], ys[i]), as len(xs) calls of Add would.
+func (a *Accumulator) AddAll(xs, ys []float64) {
+	ys = ys[:len(xs)]
+	for i, x := range xs {
+		c := a.Class(x)
+		a.Sum[c] += ys[i]
+		a.Count[c]++
+	}
 }
 
 // Index returns the first-order index estimate given the mean and

@@ -60,9 +60,9 @@ func TestIshigami(t *testing.T) {
 		vr += (v - mean) * (v - mean)
 	}
 	vr /= n
-	edges := Edges(func(p float64) float64 { return -math.Pi + 2*math.Pi*p }, m)
+	part := Partition{M: m, Lo: -math.Pi, Hi: math.Pi}
 	for j := range 3 {
-		acc := NewAccumulator(edges)
+		acc := NewAccumulator(part)
 		for i := range n {
 			acc.Add(x[j][i], y[i])
 		}
@@ -77,7 +77,7 @@ func TestDegenerate(t *testing.T) {
 	if FirstOrder([]float64{1, 2, 3, 4}, y, 2) != 0 {
 		t.Error("constant output: want 0")
 	}
-	acc := NewAccumulator([]float64{0.5})
+	acc := NewAccumulator(Partition{M: 2, Lo: 0, Hi: 1})
 	acc.Add(0, 1)
 	if acc.Index(1, 0) != 0 {
 		t.Error("zero variance: want 0")
@@ -93,15 +93,51 @@ func TestDegenerate(t *testing.T) {
 	}
 }
 
-func TestClass(t *testing.T) {
-	e := []float64{1, 2, 3}
-	for _, c := range []struct {
+func TestPartitionClass(t *testing.T) {
+	lin := NewAccumulator(Partition{M: 4, Lo: 0, Hi: 4})
+	lg := NewAccumulator(Partition{M: 4, Lo: 1, Hi: 1e4, Log: true})
+	cases := []struct {
+		a    *Accumulator
 		x    float64
 		want int
-	}{{0, 0}, {1, 1}, {1.5, 1}, {3, 3}, {9, 3}, {math.Inf(-1), 0}} {
-		if got := Class(e, c.x); got != c.want {
-			t.Errorf("Class(%g) = %d, want %d", c.x, got, c.want)
+	}{
+		{lin, -1, 0}, {lin, 0, 0}, {lin, 0.99, 0}, {lin, 1, 1}, {lin, 3.5, 3}, {lin, 4, 3}, {lin, 99, 3}, {lin, math.NaN(), 0},
+		{lg, 0, 0}, {lg, -5, 0}, {lg, 2, 0}, {lg, 50, 1}, {lg, 500, 2}, {lg, 5000, 3}, {lg, 1e9, 3}, {lg, math.Inf(1), 3},
+	}
+	for _, c := range cases {
+		if got := c.a.Class(c.x); got != c.want {
+			t.Errorf("%+v: Class(%g) = %d, want %d", c.a.Part, c.x, got, c.want)
 		}
+	}
+}
+
+// TestLogPartition: for a log-normal input the log-scale partition agrees
+// with the rank-based estimator. y = ln x + noise with V(ln x) = 1 and noise
+// variance 1/3 has S = 0.75 exactly.
+func TestLogPartition(t *testing.T) {
+	const n = 20000
+	r := rand.New(rand.NewPCG(4, 4))
+	x, y := make([]float64, n), make([]float64, n)
+	for i := range n {
+		z := r.NormFloat64()
+		x[i] = math.Exp(z)
+		y[i] = z + (r.Float64()-0.5)*2 // uniform(−1, 1): variance 1/3
+	}
+	m := ClassCount(n)
+	a := NewAccumulator(Partition{M: m, Lo: math.Exp(-2.576), Hi: math.Exp(2.576), Log: true})
+	a.AddAll(x, y)
+	var mean, vr float64
+	for _, v := range y {
+		mean += v
+	}
+	mean /= n
+	for _, v := range y {
+		vr += (v - mean) * (v - mean)
+	}
+	vr /= n
+	got, ref := a.Index(mean, vr), FirstOrder(x, y, m)
+	if math.Abs(got-0.75) > 0.03 || math.Abs(ref-0.75) > 0.03 {
+		t.Errorf("log partition %.4f, ranks %.4f, want 0.75 ± 0.03", got, ref)
 	}
 }
 
@@ -126,5 +162,26 @@ func TestIrrelevantInputNearZero(t *testing.T) {
 	mean = sum / 20
 	if mean > 0.5*float64(m-1)/n {
 		t.Errorf("mean share of an irrelevant input %g, want ≈ 0 (unadjusted bias %g)", mean, float64(m-1)/n)
+	}
+}
+
+func TestAddAllMatchesAdd(t *testing.T) {
+	r := rand.New(rand.NewPCG(2, 3))
+	for _, p := range []Partition{{M: 1, Lo: 0, Hi: 1}, {M: 7, Lo: -2, Hi: 2}, {M: 33, Lo: 0.1, Hi: 10, Log: true}} {
+		xs, ys := make([]float64, 5000), make([]float64, 5000)
+		for i := range xs {
+			xs[i] = math.Exp(r.NormFloat64())
+			ys[i] = r.Float64()
+		}
+		a, b := NewAccumulator(p), NewAccumulator(p)
+		for i := range xs {
+			a.Add(xs[i], ys[i])
+		}
+		b.AddAll(xs, ys)
+		for c := range a.Count {
+			if a.Count[c] != b.Count[c] || math.Abs(a.Sum[c]-b.Sum[c]) > 1e-9 {
+				t.Fatalf("%+v class %d: Add %d/%g, AddAll %d/%g", p, c, a.Count[c], a.Sum[c], b.Count[c], b.Sum[c])
+			}
+		}
 	}
 }

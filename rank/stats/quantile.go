@@ -2,7 +2,7 @@ package stats
 
 import (
 	"math"
-	"sort"
+	"slices"
 )
 
 // Quantile returns the type-7 p-quantile of sorted (ascending, no NaN), or NaN
@@ -36,8 +36,9 @@ const MedianSEZ = 2.5758293035489004
 
 // Summarize returns the 5 %, 50 % and 95 % type-7 quantiles of the finite
 // values of x and the standard error of the median, reordering x in place
-// (NaN and ±Inf are ignored; x[N:] is left holding NaN). It selects the order statistics it
-// needs (Floyd & Rivest 1975) instead of sorting: about three passes over x.
+// (NaN and ±Inf are ignored; x[N:] is left holding NaN). It selects the order
+// statistics it needs (Floyd & Rivest 1975) instead of sorting: about four
+// passes over x.
 //
 // The median's standard error is the McKean & Schrader (1984, Commun. Statist.
 // Simul. Comput. 13, 751) estimate (x₍ₙ₋c₊₁₎ − x₍c₎)/(2z) with
@@ -47,57 +48,71 @@ const MedianSEZ = 2.5758293035489004
 // 1/(2f(m)√n) (f the density at the median) without a density estimate, and is
 // 0 when the median sits on an atom of the distribution (for example a score
 // clamped at 0 in most samples), where the sample median is exact.
-func Summarize(x []float64) Summary {
+func Summarize(x []float64) Summary { return summarize(x, true) }
+
+// Quantiles3 is Summarize without the median's standard error (MedianSE is 0),
+// which saves two selections.
+func Quantiles3(x []float64) Summary { return summarize(x, false) }
+
+func summarize(x []float64, withSE bool) Summary {
 	n := 0
+	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range x {
 		if !math.IsNaN(v) && !math.IsInf(v, 0) {
 			x[n] = v
 			n++
+			lo = math.Min(lo, v)
+			hi = math.Max(hi, v)
 		}
 	}
 	for i := n; i < len(x); i++ {
 		x[i] = math.NaN()
 	}
 	x = x[:n]
-	if n == 0 {
+	switch {
+	case n == 0:
 		return Summary{P05: math.NaN(), P50: math.NaN(), P95: math.NaN(), MedianSE: math.NaN()}
+	case lo == hi:
+		return Summary{N: n, P05: lo, P50: lo, P95: lo}
 	}
-	ps := [3]float64{0.05, 0.5, 0.95}
-	var ks [10]int
-	nk := 0
-	add := func(k int) {
-		if k >= 0 && k < n {
-			ks[nk] = k
-			nk++
+	k05, k50, k95 := qIndex(n, 0.05), qIndex(n, 0.5), qIndex(n, 0.95)
+	c := int(math.Round(float64(n+1)/2 - MedianSEZ*math.Sqrt(float64(n)/4)))
+	c = max(c, 1)
+	if n < 64 {
+		slices.Sort(x)
+	} else {
+		// Median first, then each quantile inside its side; the order
+		// statistic after each is the minimum of what lies above it.
+		Select(x, 0, n-1, k50)
+		minTo(x, k50+1, n)
+		if k05 < k50 {
+			Select(x, 0, k50-1, k05)
+			minTo(x, k05+1, k50)
+		}
+		if k95 > k50+1 {
+			Select(x, k50+2, n-1, k95)
+			minTo(x, k95+1, n)
+		}
+		if withSE {
+			// For n ≥ 64, k05+1 < c−1 < k50 and k50+1 < n−c < k95.
+			if c-1 > k05+1 && c-1 < k50 {
+				Select(x, k05+2, k50-1, c-1)
+			}
+			if n-c > k50+1 && n-c < k95 {
+				Select(x, k50+2, k95-1, n-c)
+			}
 		}
 	}
-	for _, p := range ps {
-		lo := int(math.Floor(float64(n-1) * p))
-		add(lo)
-		add(lo + 1)
-	}
-	c := int(math.Round(float64(n+1)/2 - MedianSEZ*math.Sqrt(float64(n)/4)))
-	if c < 1 {
-		c = 1
-	}
-	add(c - 1) // 1-based c → 0-based
-	add(n - c) // 1-based n−c+1
-	k := ks[:nk]
-	sort.Ints(k)
-	k = uniq(k)
-	SelectMany(x, k)
-	q := func(p float64) float64 {
+	q := func(p float64, k int) float64 {
 		h := float64(n-1) * p
-		lo := int(math.Floor(h))
-		if lo >= n-1 {
+		if k >= n-1 {
 			return x[n-1]
 		}
-		return x[lo] + (h-float64(lo))*(x[lo+1]-x[lo])
+		return x[k] + (h-float64(k))*(x[k+1]-x[k])
 	}
-	s := Summary{N: n, P05: q(0.05), P50: q(0.5), P95: q(0.95)}
-	s.MedianSE = (x[n-c] - x[c-1]) / (2 * MedianSEZ)
-	if n < 2 || s.MedianSE < 0 {
-		s.MedianSE = 0
+	s := Summary{N: n, P05: q(0.05, k05), P50: q(0.5, k50), P95: q(0.95, k95)}
+	if withSE {
+		s.MedianSE = math.Max(0, (x[n-c]-x[c-1])/(2*MedianSEZ))
 	}
 	// Interpolation can put p05 a rounding error above p50 when they are equal.
 	s.P05 = math.Min(s.P05, s.P50)
@@ -105,14 +120,21 @@ func Summarize(x []float64) Summary {
 	return s
 }
 
-func uniq(k []int) []int {
-	out := k[:0]
-	for i, v := range k {
-		if i == 0 || v != k[i-1] {
-			out = append(out, v)
+// qIndex is ⌊(n−1)p⌋, the lower order statistic of the type-7 p-quantile.
+func qIndex(n int, p float64) int { return int(math.Floor(float64(n-1) * p)) }
+
+// minTo moves the minimum of x[lo:hi] to x[lo].
+func minTo(x []float64, lo, hi int) {
+	if lo >= hi {
+		return
+	}
+	m := lo
+	for i := lo + 1; i < hi; i++ {
+		if x[i] < x[m] {
+			m = i
 		}
 	}
-	return out
+	x[lo], x[m] = x[m], x[lo]
 }
 
 // SelectMany reorders x so that x[k] holds the value it would hold if x were

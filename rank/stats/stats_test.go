@@ -146,3 +146,25 @@ func TestRankStats(t *testing.T) {
 		}
 	}
 }
+
+func TestSummarizeSE(t *testing.T) {
+	// Against the definition on a sorted copy.
+	r := rand.New(rand.NewPCG(8, 8))
+	for _, n := range []int{64, 65, 1000, 10000} {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = r.ExpFloat64()
+		}
+		sorted := slices.Clone(x)
+		slices.Sort(sorted)
+		c := int(math.Round(float64(n+1)/2 - MedianSEZ*math.Sqrt(float64(n)/4)))
+		want := (sorted[n-c] - sorted[c-1]) / (2 * MedianSEZ)
+		if got := Summarize(x).MedianSE; math.Abs(got-want) > 1e-15 {
+			t.Errorf("n=%d: SE %g, want %g", n, got, want)
+		}
+		q := Quantiles3(slices.Clone(sorted))
+		if q.MedianSE != 0 || q.P50 != Quantile(sorted, 0.5) {
+			t.Errorf("Quantiles3: %+v", q)
+		}
+	}
+}

@@ -61,7 +61,7 @@ func Catalog(n int, seed uint64) *schema.Catalog {
 	}
 	for p := range nPlanets {
 		mp := 1.898e27 * math.Pow(10, -1.5+2*r.Float64())
-		d := au * math.Pow(10, -0.5+1.5*r.Float64())
+		d := au * math.Pow(10, 0.3+r.Float64()) // 2–20 AU: mostly icy moons
 		cat.Planets = append(cat.Planets, schema.Body{Kind: schema.KindPlanet, Name: fmt.Sprintf("Synth-%05d %c", p/planetsPer, 'b'+p%planetsPer),
 			Parent: cat.Stars[p/planetsPer].Name, Params: map[string]schema.Param{
 				"planet_mass":   param("planet_mass", mp, sym(0.01*mp)),

@@ -228,3 +228,63 @@ func TestGuessColumn(t *testing.T) {
 		}
 	}
 }
+
+// TestSuggestMapVOTable follows a foreign VOTable (IVOA VOTable 1.4
+// structure, TABLEDATA) from suggestion to import: its UCDs and units are
+// enough for a map that imports as suggested.
+func TestSuggestMapVOTable(t *testing.T) {
+	path := filepath.Join("testdata", "foreign.vot")
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	got, err := SuggestMap("foreign.vot", f, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	golden := filepath.Join("testdata", "foreign.vot.suggest.golden")
+	if *update {
+		if err := os.WriteFile(golden, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(golden)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if got != string(want) {
+		t.Errorf("suggestion differs from %s (go test -update rewrites it):\n%s", golden, got)
+	}
+	for _, line := range []string{
+		`"col_m_sig" = { key = "mass", role = "err", unit = "Mgeo" }`,
+		`"alb_lo"    = { key = "bond_albedo", role = "min" }`,
+		`"flag"      = { key = "ignore" }  # could not guess`,
+	} {
+		if !strings.Contains(got, line) {
+			t.Errorf("suggestion lacks %q", line)
+		}
+	}
+	m, err := LoadMap(strings.NewReader(got))
+	if err != nil {
+		t.Fatalf("the suggested map does not load: %v", err)
+	}
+	res, err := ReadFile(path, Options{Map: m})
+	if err != nil {
+		t.Fatalf("import with the suggested map: %v", err)
+	}
+	if len(res.Records) != 2 || res.Format != "votable" {
+		t.Fatalf("%d records, format %q", len(res.Records), res.Format)
+	}
+	r := res.Records[0]
+	// IAU 2015 B3 / CODATA 2018: Earth mass = GM_E / G.
+	near(t, "mass", param(t, r, "mass").Value, 0.012*3.986004e14/6.67430e-11, 1e-14)
+	near(t, "mass σ", param(t, r, "mass").Unc.Sigma, 0.004*3.986004e14/6.67430e-11, 1e-14)
+	near(t, "density", param(t, r, "density").Value, 2100, 1e-15)
+	if u := param(t, r, "bond_albedo").Unc; u.Kind != schema.UncRange || u.Min != 0.2 || u.Max != 0.4 {
+		t.Errorf("albedo range %+v", u)
+	}
+	if hasParam(res.Records[1], "bond_albedo") || hasParam(res.Records[1], "density") {
+		t.Errorf("empty TD became a value: %+v", res.Records[1].Params)
+	}
+}

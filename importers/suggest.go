@@ -283,9 +283,15 @@ func guessColumn(c table.Column, isText bool) guess {
 	}
 	n := normColumn(name)
 
-	// 1. The UCD, when the file gives one.
+	// 1. A name of the canonical layout (mass_err, planet_radius).
+	if k, ok := canonicalName(n); ok {
+		g.key, g.role = k.key, k.role
+		g.why = append(g.why, "the canonical name")
+	}
+
+	// 2. The UCD, when the file gives one.
 	ucd := strings.ToLower(c.UCD)
-	if ucd != "" {
+	if ucd != "" && g.key == "" {
 		for _, w := range strings.Split(ucd, ";") {
 			w = strings.TrimSpace(w)
 			switch {
@@ -327,14 +333,8 @@ func guessColumn(c table.Column, isText bool) guess {
 		}
 	}
 
-	// 2. The name: strip a role marker, then look the rest up.
+	// 3. The name: strip a role marker, then look the rest up.
 	base := n
-	if g.key == "" {
-		if k, ok := canonicalName(n); ok {
-			g.key, g.role = k.key, k.role
-			g.why = append(g.why, "the canonical name")
-		}
-	}
 	if g.key == "" {
 		if k, ok := synonyms[n]; ok {
 			g.key = k

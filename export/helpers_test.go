@@ -32,6 +32,8 @@ func sampleResult() *rank.Result {
 		Seed:            42,
 		TopK:            2,
 		GOARCH:          "amd64",
+		Excluded:        []rank.Excluded{{Name: "Osk c IX", Planet: "Osk c", Missing: []string{"mass", "radius"}}},
+		Warnings:        []string{"profile prior for k2_q used for 1 of 3 moons"},
 		ProfileTOML:     "name = \"ocean-worlds\"\n\n[[criterion]]\nquantity = \"ocean_probability\"\nweight = 1\n",
 		Revision:        rev,
 		Targets: []rank.Target{
@@ -61,6 +63,8 @@ func sampleResult() *rank.Result {
 					{Key: "star_luminosity", Value: 3.2e26, Unc: schema.Uncertainty{Kind: schema.UncRange, Min: 3.0e26, Max: 3.4e26}, Source: "invented stellar model", Status: schema.StatusMeasured, Revision: 2},
 				},
 				Priors: map[string]string{"k2_q": "log-uniform 1e-4 to 0.1"},
+				Flags:  map[string]float64{"high_eccentricity": 0.12, "frozen_through": 0.09},
+				Notes:  []string{"ice_shell_thickness_m not computable in 9% of samples"},
 			},
 			{
 				Name: "Velra b II", Planet: "Velra b", Star: "Velra",

@@ -75,6 +75,22 @@ func WriteTable(w io.Writer, r *rank.Result, opt TableOptions) error {
 	if marked {
 		put("%s marks a target with inputs assumed from the profile's priors, not measured.\n", assumedMark)
 	}
+	if n := len(r.Excluded); n > 0 {
+		const listed = 5
+		put("Not ranked (missing inputs): %d moon(s)", n)
+		for i, e := range r.Excluded {
+			if i == listed {
+				put("; …")
+				break
+			}
+			sep := "; "
+			if i == 0 {
+				sep = ": "
+			}
+			put("%s%s", sep, tableText(excludedText(e)))
+		}
+		put(".\n")
+	}
 	put("Ranges are 5th–95th percentiles over %d Monte Carlo samples; seed %d; profile %s; catalog revision %d.\n",
 		r.Samples, r.Seed, r.Profile, r.CatalogRevision)
 	put("%s\n", Caution)

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"sort"
 	"strconv"
 	"strings"
 	"time"
@@ -183,6 +184,7 @@ type book struct {
 	title  int            // section titles on the Changes and Method sheets
 	mono   int            // the profile TOML
 	wrap   int            // wrapped text on the Method sheet
+	bold   int            // headings of the method text
 	left   int            // left-aligned values on the Method sheet
 	numFmt map[string]int // number format → style
 }
@@ -212,6 +214,9 @@ func newBook() (*book, error) {
 		return nil, err
 	}
 	if b.mono, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Family: "Courier New"}}); err != nil {
+		return nil, err
+	}
+	if b.bold, err = f.NewStyle(&excelize.Style{Font: &excelize.Font{Bold: true}}); err != nil {
 		return nil, err
 	}
 	if b.wrap, err = f.NewStyle(&excelize.Style{Alignment: &excelize.Alignment{WrapText: true, Vertical: "top"}}); err != nil {
@@ -514,7 +519,7 @@ const (
 
 // rankingCols is the number of columns of the Ranking sheet; the chart
 // stands beside them.
-const rankingCols = 24
+const rankingCols = 25
 
 func rankingColumns(r *rank.Result) []column {
 	return []column{
@@ -542,6 +547,7 @@ func rankingColumns(r *rank.Result) []column {
 		{"Main driver share of score variance", fmtShare},
 		{"Assumed inputs mark", ""},
 		{"Assumed inputs", ""},
+		{"Notes", ""},
 	}
 }
 
@@ -577,7 +583,8 @@ func (b *book) ranking(r *rank.Result) error {
 				fv(t.PTop.P), fv(t.Metrics.OceanProbability),
 				tv(FormatRange(hf, "W/m2")), fv(hf.P05), fv(hf.P50), fv(hf.P95),
 				tv(FormatRange(ice, "m")), fv(ice.P05), fv(ice.P50), fv(ice.P95),
-				tv(retainedList(t)), tv(driver), fv(share), tv(mark), tv(strings.Join(t.AssumedInputs, ", ")))
+				tv(retainedList(t)), tv(driver), fv(share), tv(mark), tv(strings.Join(t.AssumedInputs, ", ")),
+				tv(strings.Join(t.Notes, "; ")))
 		},
 		extras: func(sw *excelize.StreamWriter, lastRow int) error {
 			if len(r.Targets) == 0 {
@@ -647,6 +654,7 @@ func (b *book) derived(r *rank.Result) error {
 	for _, v := range vols {
 		cols = append(cols, column{"P(" + v + " retained)", fmtProb})
 	}
+	cols = append(cols, column{"Model validity flags (share of samples)", ""})
 	return b.stream(table{
 		sheet: SheetDerived, cols: cols, rows: len(r.Targets), freezeCols: 2,
 		row: func(i int, row []any) []any {
@@ -664,7 +672,7 @@ func (b *book) derived(r *rank.Result) error {
 					row = append(row, nil)
 				}
 			}
-			return row
+			return append(row, tv(flagText(t.Flags)))
 		},
 	})
 }
@@ -703,6 +711,21 @@ func (b *book) inputs(r *rank.Result) error {
 				fv(lo), fv(hi), tv(string(p.Status)), tv(prior), tv(p.Source), rev)
 		},
 	})
+}
+
+// flagText lists the model's validity flags with the share of samples that
+// raised each, e.g. "high_eccentricity 12%; no_ice 100%".
+func flagText(flags map[string]float64) string {
+	keys := make([]string, 0, len(flags))
+	for k := range flags {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	parts := make([]string, 0, len(keys))
+	for _, k := range keys {
+		parts = append(parts, k+" "+formatShare(flags[k]))
+	}
+	return strings.Join(parts, "; ")
 }
 
 // uncText renders an uncertainty compactly in the value's unit.
@@ -1020,8 +1043,27 @@ func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 	kv("GOARCH of the ranking", goarch)
 	put("", 0, nil, 0)
 	section("Reading the workbook", readingGuide(r), b.wrap)
+	if len(r.Excluded) > 0 {
+		section("Not ranked (missing inputs)", excludedLines(r.Excluded), b.wrap)
+	}
+	if len(r.Warnings) > 0 {
+		section("Warnings of the ranking", r.Warnings, b.wrap)
+	}
 	section("Simplifications", Simplifications, b.wrap)
-	section("Method", splitLines(info.Method), b.wrap)
+	// The method text is plain text laid out for a fixed-width font, with
+	// headings underlined by a row of '-' or '=': keep the font, make the
+	// headings bold and drop their underlines.
+	put("Method", b.header, nil, 0)
+	lines := splitLines(info.Method)
+	for i := 0; i < len(lines); i++ {
+		if i+1 < len(lines) && isUnderline(lines[i+1], lines[i]) {
+			put("", 0, lines[i], b.bold)
+			i++
+			continue
+		}
+		put("", 0, lines[i], b.mono)
+	}
+	put("", 0, nil, 0)
 	section("Scoring profile (TOML, in full)", splitLines(r.ProfileTOML), b.mono)
 	if err != nil {
 		return err
@@ -1037,6 +1079,36 @@ func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 		return err
 	}
 	return f.SetPageLayout(sheet, &excelize.PageLayoutOptions{Orientation: ptr("landscape"), FitToWidth: ptr(1), FitToHeight: ptr(0)})
+}
+
+// isUnderline reports whether line underlines heading: a run of '-' or '='
+// at least half the heading's length.
+func isUnderline(line, heading string) bool {
+	t := strings.TrimSpace(line)
+	if len(t) < 3 || strings.TrimSpace(heading) == "" || 2*len(t) < len(strings.TrimSpace(heading)) {
+		return false
+	}
+	return strings.Trim(t, "-") == "" || strings.Trim(t, "=") == ""
+}
+
+// excludedLines describes the moons the ranking left out.
+func excludedLines(ex []rank.Excluded) []string {
+	out := make([]string, len(ex))
+	for i, e := range ex {
+		out[i] = excludedText(e)
+	}
+	return out
+}
+
+func excludedText(e rank.Excluded) string {
+	s := e.Name
+	if e.Planet != "" {
+		s += " (" + e.Planet + ")"
+	}
+	if len(e.Missing) > 0 {
+		s += ": missing " + strings.Join(e.Missing, ", ")
+	}
+	return s
 }
 
 // wrappedLines estimates the lines text takes when wrapped in a column of

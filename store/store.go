@@ -35,6 +35,7 @@ var writerParams = []string{
 	"_pragma=journal_mode(WAL)",
 	"_pragma=synchronous(NORMAL)",
 	"_pragma=foreign_keys(1)",
+	"_pragma=cache_size(-32768)",
 	"_txlock=immediate",
 }
 

@@ -75,7 +75,9 @@ CREATE TABLE value (
 	CHECK ((factor IS NOT NULL) = (unc_kind = 'factor'))
 );
 
--- At most one current value per body and key.
-CREATE UNIQUE INDEX value_current ON value (body_id, key) WHERE superseded_rev IS NULL;
--- History of one body's key. Snapshots scan the table; more indexes would slow imports.
-CREATE INDEX value_history ON value (body_id, key, set_rev);
+-- One index does three jobs: at most one current value (superseded_rev NULL,
+-- indexed as 0) per body and key; at most one value of a body and key
+-- superseded by any one revision; and the lookup of a body's current values
+-- and history. Snapshots scan the table. Each further index costs imports
+-- about a fifth of their speed (measured with store's BenchmarkImport).
+CREATE UNIQUE INDEX value_key ON value (body_id, key, ifnull(superseded_rev, 0));

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/xuri/excelize/v2"
 )
 
 // Options → output: each command run against a catalog in t.TempDir().
@@ -187,5 +189,149 @@ func TestDemoBuildsInvented(t *testing.T) {
 	}
 	if _, err := os.Stat("tidesift.db"); err == nil {
 		t.Errorf("demo without --db left a catalog at the default path")
+	}
+}
+
+// demoCatalog builds the demo catalog at the test app's --db path.
+func demoCatalog(tb testing.TB, ta *testApp) {
+	tb.Helper()
+	mustRun(tb, ta, "demo", "--out", filepath.Join(tb.TempDir(), "demo.xlsx"))
+}
+
+func TestRankOutputs(t *testing.T) {
+	ta := newTestApp(t)
+	demoCatalog(t, ta)
+
+	var doc struct {
+		CatalogRevision int64  `json:"catalog_revision"`
+		Profile         string `json:"profile"`
+		Samples         int    `json:"samples"`
+		Seed            uint64 `json:"seed"`
+		Targets         []struct {
+			Name string  `json:"name"`
+			Rank float64 `json:"rank"`
+			PTop struct {
+				K int
+				P float64
+			} `json:"p_top"`
+		} `json:"targets"`
+	}
+	out := mustRun(t, ta, "rank", "--samples", "300", "--seed", "9", "--format", "json")
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.CatalogRevision != 1 || doc.Profile != "ocean" || doc.Samples != 300 || doc.Seed != 9 || len(doc.Targets) != 12 {
+		t.Fatalf("rank json header %+v", doc)
+	}
+	// P(rank ≤ k) over all targets sums to k (the ranks of each sample are a
+	// permutation); a check on the whole pipeline, not only on the engine.
+	sum := 0.0
+	for _, tg := range doc.Targets {
+		sum += tg.PTop.P
+	}
+	if k := float64(doc.Targets[0].PTop.K); math.Abs(sum-k) > 1e-9 {
+		t.Errorf("sum of P(top k) = %g, want k = %g", sum, k)
+	}
+
+	// --top limits the JSON and CSV outputs too.
+	if err := json.Unmarshal([]byte(mustRun(t, ta, "rank", "--samples", "300", "--top", "2", "--format", "json")), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Targets) != 2 {
+		t.Errorf("--top 2: %d targets", len(doc.Targets))
+	}
+	rows, err := csv.NewReader(strings.NewReader(mustRun(t, ta, "rank", "--samples", "300", "--star", "Teodra", "--format", "csv"))).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 5 {
+		t.Errorf("--star Teodra: %d CSV rows, want a header and 4 targets", len(rows))
+	}
+}
+
+func TestExportWorkbookAndFiles(t *testing.T) {
+	ta := newTestApp(t)
+	demoCatalog(t, ta)
+	dir := t.TempDir()
+	book := filepath.Join(dir, "review.xlsx")
+	mustRun(t, ta, "export", "--out", book, "--samples", "300", "--seed", "5")
+	if !strings.Contains(ta.errOut.String(), "wrote "+book) {
+		t.Errorf("export did not say where it wrote: %q", ta.errOut)
+	}
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	sheets := strings.Join(f.GetSheetList(), ",")
+	for _, s := range []string{"Ranking", "Derived", "Inputs", "Drivers", "Method"} {
+		if !strings.Contains(sheets, s) {
+			t.Errorf("workbook sheets %s lack %s", sheets, s)
+		}
+	}
+	method, err := f.GetRows("Method")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text strings.Builder
+	for _, r := range method {
+		text.WriteString(strings.Join(r, " "))
+		text.WriteByte('\n')
+	}
+	for _, want := range []string{"triage aid", "Uncertainty and ranking"} {
+		if !strings.Contains(text.String(), want) {
+			t.Errorf("Method sheet lacks %q", want)
+		}
+	}
+
+	// JSON to a file equals JSON to standard output.
+	js := filepath.Join(dir, "r.json")
+	mustRun(t, ta, "export", "--out", js, "--samples", "300", "--seed", "5")
+	b, err := os.ReadFile(js)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if std := mustRun(t, ta, "export", "--format", "json", "--samples", "300", "--seed", "5"); std != string(b) {
+		t.Errorf("export to a file and to stdout differ")
+	}
+	if std := mustRun(t, ta, "rank", "--format", "json", "--samples", "300", "--seed", "5"); std != string(b) {
+		t.Errorf("export --format json and rank --format json differ")
+	}
+}
+
+func TestShowDerivedAndAssumed(t *testing.T) {
+	ta := newTestApp(t)
+	demoCatalog(t, ta)
+	var doc struct {
+		Inputs  []inputJSON    `json:"inputs"`
+		Derived map[string]any `json:"derived"`
+	}
+	if err := json.Unmarshal([]byte(mustRun(t, ta, "show", "Teodra b II", "--format", "json")), &doc); err != nil {
+		t.Fatal(err)
+	}
+	// The contract's metric names, as plain numbers (or null).
+	for _, k := range []string{"tidal_power_w", "radiogenic_power_w", "heat_flux_w_m2", "tidal_force_n", "surface_temperature_k",
+		"escape_velocity_m_s", "water_layer_thickness_m", "ice_shell_thickness_m", "ocean_probability", "retention"} {
+		if _, ok := doc.Derived[k]; !ok {
+			t.Errorf("derived lacks %q", k)
+		}
+	}
+	// Teodra b II has no albedo in the catalog: the profile's prior fills
+	// it, marked assumed, never with a catalog revision.
+	found := false
+	for _, in := range doc.Inputs {
+		if in.Key == "bond_albedo" {
+			found = true
+			if in.Status != "assumed" || in.Revision != 0 || !strings.Contains(in.Source, "prior") {
+				t.Errorf("bond_albedo %+v, want an assumed prior value", in)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("show lists no bond_albedo for Teodra b II")
+	}
+	// The catalog itself still lacks it.
+	if out := mustRun(t, ta, "list", "--planet", "Teodra b", "--format", "json"); strings.Contains(out, `"assumed"`) {
+		t.Errorf("list shows assumed values; priors must never reach the catalog")
 	}
 }

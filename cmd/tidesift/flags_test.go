@@ -147,3 +147,78 @@ func TestDBDefault(t *testing.T) {
 		}
 	}
 }
+
+func TestRankFlags(t *testing.T) {
+	ta := newTestApp(t)
+	var got *rankOptions
+	cmd := newRankCmd(ta.app, func(_ context.Context, o *rankOptions) error { got = o; return nil })
+	err, _ := execute(t, ta.app, cmd, "rank", "--top", "3", "--planet", "Velmira b", "--planet", "Teodra b", "--star", "Velmira",
+		"--samples", "500", "--seed", "42", "--profile", "tidal", "--workers", "1", "--format", "json", "--rev", "2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := rankFlags{Top: 3, Planets: []string{"Velmira b", "Teodra b"}, Stars: []string{"Velmira"},
+		Samples: 500, Seed: 42, Profile: "tidal", Workers: 1, Revision: 2}
+	if !reflect.DeepEqual(got.rankFlags, want) || got.Format != "json" {
+		t.Errorf("rank options\n got %+v %q\nwant %+v json", got.rankFlags, got.Format, want)
+	}
+
+	// Defaults: 10,000 samples, seed 1, the ocean profile, all targets.
+	cmd = newRankCmd(ta.app, func(_ context.Context, o *rankOptions) error { got = o; return nil })
+	if err, _ := execute(t, ta.app, cmd, "rank"); err != nil {
+		t.Fatal(err)
+	}
+	if d := got.rankFlags; d.Samples != 10000 || d.Seed != 1 || d.Profile != "ocean" || d.Top != 0 || got.Format != "table" {
+		t.Errorf("rank defaults %+v %q", d, got.Format)
+	}
+}
+
+func TestRankExportDiffFlagErrors(t *testing.T) {
+	cases := []struct {
+		args    []string
+		wantErr string
+	}{
+		{[]string{"rank", "--samples", "0"}, "invalid --samples 0: want at least 1"},
+		{[]string{"rank", "--top", "-1"}, "invalid --top -1: want a count ≥ 1, or 0 for all"},
+		{[]string{"rank", "--workers", "-2"}, "invalid --workers -2: want a count ≥ 1, or 0 for one per CPU"},
+		{[]string{"rank", "--seed", "-1"}, `invalid argument "-1" for "--seed" flag: strconv.ParseUint: parsing "-1": invalid syntax`},
+		{[]string{"rank", "--format", "xlsx"}, `invalid argument "xlsx" for "-f, --format" flag: want table, json or csv`},
+		{[]string{"export"}, "nothing to write to: give --out FILE.xlsx, or --format csv or json for standard output"},
+		{[]string{"export", "--out", "r.ods"}, `cannot tell the format of --out "r.ods" from its extension; give --format xlsx, csv or json`},
+		{[]string{"export", "--format", "xlsx"}, "a workbook needs --out FILE.xlsx (it is not written to standard output)"},
+		{[]string{"export", "--format", "json", "--since", "2"}, "--since needs a workbook (--format xlsx): CSV and JSON hold one ranking"},
+		{[]string{"diff", "1"}, "accepts 2 arg(s), received 1"},
+		{[]string{"diff", "1", "-3"}, "unknown shorthand flag: '3' in -3"},
+		{[]string{"diff", "1", "x"}, `invalid revision "x": want a revision number (0: the latest)`},
+		{[]string{"history"}, "accepts between 1 and 2 arg(s), received 0"},
+		{[]string{"history", "Ilmeth", "colour"}, `unknown key "colour"; want one of ` + keyList()},
+		{[]string{"profile", "show"}, "accepts 1 arg(s), received 0"},
+	}
+	for _, tc := range cases {
+		t.Run(tc.args[0]+" "+tc.wantErr, func(t *testing.T) {
+			ta := newTestApp(t)
+			if code := runCLI(t, ta, tc.args...); code != exitUsage {
+				t.Errorf("exit %d, want %d; stderr %q", code, exitUsage, ta.errOut)
+			}
+			if !containsLine(ta.errOut.String(), "tidesift: "+tc.wantErr) {
+				t.Errorf("stderr %q, want the line %q", ta.errOut, "tidesift: "+tc.wantErr)
+			}
+		})
+	}
+}
+
+func TestExportFormatFromExtension(t *testing.T) {
+	for _, tc := range []struct{ out, want string }{
+		{"review.xlsx", "xlsx"}, {"R.CSV", "csv"}, {"ranking.json", "json"},
+	} {
+		ta := newTestApp(t)
+		var got *exportOptions
+		cmd := newExportCmd(ta.app, func(_ context.Context, o *exportOptions) error { got = o; return nil })
+		if err, _ := execute(t, ta.app, cmd, "export", "--out", tc.out, "--since", "0"); err != nil {
+			t.Fatal(err)
+		}
+		if got.Format != tc.want || got.Out != tc.out {
+			t.Errorf("--out %s: format %q, want %q", tc.out, got.Format, tc.want)
+		}
+	}
+}

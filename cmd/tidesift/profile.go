@@ -107,15 +107,26 @@ func loadProfile(nameOrFile string) (*profile.Profile, error) {
 		return nil, &exitErr{code: exitUsage, err: err, hint: "'tidesift profile list' shows the built-in profiles."}
 	}
 	var list profile.ErrorList
-	if errors.As(err, &list) {
-		msg := fmt.Sprintf("profile %s: %s:", nameOrFile, plural(len(list), "problem"))
-		for _, e := range list {
-			msg += "\n  " + e.Error()
+	if errors.As(err, &list) && len(list) > 0 {
+		// Each problem already names the file, line and key.
+		msg := ""
+		if len(list) > 1 {
+			msg = fmt.Sprintf("profile %s: %s:\n", nameOrFile, plural(len(list), "problem"))
+		}
+		for i, e := range list {
+			if i > 0 {
+				msg += "\n"
+			}
+			msg += e.Error()
 			if e.Excerpt != "" {
 				msg += "\n" + e.Excerpt
 			}
 		}
 		return nil, errors.New(msg)
+	}
+	var pe *profile.Error
+	if errors.As(err, &pe) && pe.Excerpt != "" {
+		return nil, fmt.Errorf("%w\n%s", err, pe.Excerpt)
 	}
 	return nil, err
 }

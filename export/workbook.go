@@ -266,7 +266,25 @@ type table struct {
 	extras func(sw *excelize.StreamWriter, lastRow int) error
 }
 
+// maxSheetRows is the most rows a worksheet holds (Office Open XML limit);
+// a variable so tests can exercise the cut-off.
+var maxSheetRows = excelize.TotalRows
+
 func (b *book) stream(t table) error {
+	headRow := 1
+	if t.title != "" {
+		headRow = 2
+	}
+	// A sheet that would pass the row limit keeps what fits and says so in
+	// its last row; CSV and JSON have no such limit.
+	cut := 0
+	if room := maxSheetRows - headRow - 1; t.rows > room {
+		cut = t.rows - room
+		t.rows = room
+		if t.filterRows > t.rows {
+			t.filterRows = t.rows
+		}
+	}
 	// Headers wrap: a column is as wide as its content, its header's longest
 	// word, or a short header, whichever is widest.
 	widths := make([]float64, len(t.cols))
@@ -282,11 +300,10 @@ func (b *book) stream(t table) error {
 			}
 		}
 	}
-	headRow := 1
-	if t.title != "" {
-		headRow = 2
-	}
 	lastRow := headRow + t.rows
+	if cut > 0 {
+		lastRow++
+	}
 	last, err := excelize.CoordinatesToCellName(len(t.cols), lastRow)
 	if err != nil {
 		return err
@@ -340,6 +357,12 @@ func (b *book) stream(t table) error {
 		buf = t.row(i, buf[:0])
 		if err := sw.SetRow(cellName(1, headRow+1+i), buf); err != nil {
 			return fmt.Errorf("row %d: %w", headRow+1+i, err)
+		}
+	}
+	if cut > 0 {
+		note := fmt.Sprintf("… %d more rows not shown: a sheet holds at most %d rows. The CSV and JSON exports hold them all.", cut, maxSheetRows)
+		if err := sw.SetRow(cellName(1, lastRow), []any{excelize.Cell{StyleID: b.title, Value: note}}); err != nil {
+			return err
 		}
 	}
 	fRows, fCols := t.rows, len(t.cols)

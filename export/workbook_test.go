@@ -550,3 +550,20 @@ func TestWorkbookOpensInLibreOffice(t *testing.T) {
 		}
 	}
 }
+
+func TestWorkbookRowLimit(t *testing.T) {
+	defer func(n int) { maxSheetRows = n }(maxSheetRows)
+	maxSheetRows = 20
+	r := syntheticResult(5) // 75 inputs
+	f := openBook(t, writeBook(t, r, testInfo(nil)))
+	rows := rawRows(t, f, SheetInputs)
+	if len(rows) != 20 {
+		t.Fatalf("Inputs has %d rows, want 20", len(rows))
+	}
+	if last := rows[19][0]; !strings.HasPrefix(last, "… 57 more rows not shown") {
+		t.Errorf("last row = %q, want the cut-off note", last)
+	}
+	if n := len(rawRows(t, f, SheetRanking)); n != 6 {
+		t.Errorf("Ranking has %d rows, want 6", n)
+	}
+}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"database/sql"
 	"encoding/csv"
 	"encoding/json"
 	"math"
@@ -10,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/xuri/excelize/v2"
+	_ "modernc.org/sqlite"
 )
 
 // Options → output: each command run against a catalog in t.TempDir().
@@ -333,5 +335,45 @@ func TestShowDerivedAndAssumed(t *testing.T) {
 	// The catalog itself still lacks it.
 	if out := mustRun(t, ta, "list", "--planet", "Teodra b", "--format", "json"); strings.Contains(out, `"assumed"`) {
 		t.Errorf("list shows assumed values; priors must never reach the catalog")
+	}
+}
+
+func TestCheck(t *testing.T) {
+	ta := newTestApp(t)
+	mustRun(t, ta, "import", writeFile(t, t.TempDir(), "moons.csv", readFixture(t, "moons.csv")))
+	if out := mustRun(t, ta, "check"); !strings.HasPrefix(out, "catalog ok:") {
+		t.Errorf("check of a sound catalog: %q", out)
+	}
+
+	// Damage a value behind the store's back: an eccentricity of 1.5 that no
+	// import would accept.
+	db, err := sql.Open("sqlite", ta.dbPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := db.Exec(`UPDATE value SET value = 1.5 WHERE key = 'eccentricity'`); err != nil {
+		t.Fatal(err)
+	}
+	db.Close()
+
+	ta.out.Reset()
+	ta.errOut.Reset()
+	if code := runCLI(t, ta, "check"); code != exitProblems {
+		t.Fatalf("check of a damaged catalog: exit %d, want %d", code, exitProblems)
+	}
+	if out := ta.out.String(); !strings.Contains(out, "eccentricity") || !strings.Contains(out, "problems") {
+		t.Errorf("check report %q does not name the bad values", out)
+	}
+	if !strings.Contains(ta.errOut.String(), "tidesift: check found 3 problems") {
+		t.Errorf("check stderr %q", ta.errOut)
+	}
+	var doc checkDoc
+	ta.out.Reset()
+	runCLI(t, ta, "check", "--format", "json")
+	if err := json.Unmarshal(ta.out.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.OK || len(doc.Problems) != 3 || doc.Problems[0].Key != "eccentricity" {
+		t.Errorf("check json %+v", doc)
 	}
 }

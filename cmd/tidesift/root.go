@@ -116,6 +116,7 @@ func newRootCmd(a *app) *cobra.Command {
 		newMethodsCmd(a, nil),
 		newRankCmd(a, nil),
 		newExportCmd(a, nil),
+		newCheckCmd(a, nil),
 	)
 	return root
 }

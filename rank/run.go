@@ -317,6 +317,7 @@ type worker struct {
 	acc       []*sensitivity.Accumulator
 	uncertain []int
 	classes   int
+	sum       stats.Summarizer
 	d         physics.Derived
 	in        physics.Inputs
 }
@@ -419,13 +420,13 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 		return out.Drivers[i].Input < out.Drivers[j].Input
 	})
 
-	sum := stats.Summarize(w.score)
+	sum := w.sum.Summarize(w.score, true)
 	out.Score = Quantiles{P05: sum.P05, P50: sum.P50, P95: sum.P95}
 	out.ScoreMedianSE = sum.MedianSE
 
 	var notes []string
 	q := func(m int) Quantiles {
-		s := stats.Quantiles3(w.metric[m])
+		s := w.sum.Summarize(w.metric[m], false)
 		if s.N < S {
 			notes = append(notes, fmt.Sprintf("%s: not computable in %s of samples", bufferedNames[m], percent(S-s.N, S)))
 		}

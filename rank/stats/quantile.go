@@ -2,6 +2,7 @@ package stats
 
 import (
 	"math"
+	"math/bits"
 	"slices"
 )
 
@@ -36,9 +37,8 @@ const MedianSEZ = 2.5758293035489004
 
 // Summarize returns the 5 %, 50 % and 95 % type-7 quantiles of the finite
 // values of x and the standard error of the median, reordering x in place
-// (NaN and ±Inf are ignored; x[N:] is left holding NaN). It selects the order
-// statistics it needs (Floyd & Rivest 1975) instead of sorting: about four
-// passes over x.
+// (NaN and ±Inf are ignored; x[N:] is left holding NaN). It allocates scratch
+// space; a Summarizer reuses its own.
 //
 // The median's standard error is the McKean & Schrader (1984, Commun. Statist.
 // Simul. Comput. 13, 751) estimate (x₍ₙ₋c₊₁₎ − x₍c₎)/(2z) with
@@ -48,21 +48,53 @@ const MedianSEZ = 2.5758293035489004
 // 1/(2f(m)√n) (f the density at the median) without a density estimate, and is
 // 0 when the median sits on an atom of the distribution (for example a score
 // clamped at 0 in most samples), where the sample median is exact.
-func Summarize(x []float64) Summary { return summarize(x, true) }
+func Summarize(x []float64) Summary { return new(Summarizer).Summarize(x, true) }
 
-// Quantiles3 is Summarize without the median's standard error (MedianSE is 0),
-// which saves two selections.
-func Quantiles3(x []float64) Summary { return summarize(x, false) }
+// Quantiles3 is Summarize without the median's standard error (MedianSE is 0).
+func Quantiles3(x []float64) Summary { return new(Summarizer).Summarize(x, false) }
 
-func summarize(x []float64, withSE bool) Summary {
+// Summarizer computes Summaries with reusable scratch space. It is not safe
+// for concurrent use.
+//
+// It finds the few order statistics it needs exactly, in two passes instead of
+// a sort: a histogram of the values' order-preserving integer keys (at most
+// 4,096 bins between the smallest and largest key; the keys of positive
+// floats grow like their logarithm, so heavy-tailed samples spread over the
+// bins), then a gather of the values in the bins that hold the wanted ranks,
+// and a selection (Floyd & Rivest 1975) among those few.
+type Summarizer struct {
+	scratch []float64
+	counts  [histBins + 1]int32
+	mark    [histBins + 1]int32
+}
+
+const histBins = 4096
+
+// fkey maps a float64 to a uint64 with the same order.
+func fkey(v float64) uint64 {
+	b := math.Float64bits(v)
+	if b>>63 != 0 {
+		return ^b
+	}
+	return b | 1<<63
+}
+
+// Summarize is the package-level Summarize (withSE true) or Quantiles3
+// (withSE false), reusing z's scratch space.
+func (z *Summarizer) Summarize(x []float64, withSE bool) Summary {
 	n := 0
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range x {
-		if !math.IsNaN(v) && !math.IsInf(v, 0) {
+		if v-v == 0 { // finite: NaN−NaN and Inf−Inf are NaN
+			v += 0 // −0 becomes +0, so that float order and key order agree
 			x[n] = v
 			n++
-			lo = math.Min(lo, v)
-			hi = math.Max(hi, v)
+			if v < lo {
+				lo = v
+			}
+			if v > hi {
+				hi = v
+			}
 		}
 	}
 	for i := n; i < len(x); i++ {
@@ -78,41 +110,33 @@ func summarize(x []float64, withSE bool) Summary {
 	k05, k50, k95 := qIndex(n, 0.05), qIndex(n, 0.5), qIndex(n, 0.95)
 	c := int(math.Round(float64(n+1)/2 - MedianSEZ*math.Sqrt(float64(n)/4)))
 	c = max(c, 1)
+	var want [8]int
+	nw := 0
+	for _, k := range [...]int{k05, k05 + 1, k50, k50 + 1, k95, k95 + 1} {
+		want[nw] = min(k, n-1)
+		nw++
+	}
+	if withSE {
+		want[nw], want[nw+1] = c-1, n-c
+		nw += 2
+	}
+	var val [8]float64
 	if n < 64 {
 		slices.Sort(x)
+		for i := range nw {
+			val[i] = x[want[i]]
+		}
 	} else {
-		// Median first, then each quantile inside its side; the order
-		// statistic after each is the minimum of what lies above it.
-		Select(x, 0, n-1, k50)
-		minTo(x, k50+1, n)
-		if k05 < k50 {
-			Select(x, 0, k50-1, k05)
-			minTo(x, k05+1, k50)
-		}
-		if k95 > k50+1 {
-			Select(x, k50+2, n-1, k95)
-			minTo(x, k95+1, n)
-		}
-		if withSE {
-			// For n ≥ 64, k05+1 < c−1 < k50 and k50+1 < n−c < k95.
-			if c-1 > k05+1 && c-1 < k50 {
-				Select(x, k05+2, k50-1, c-1)
-			}
-			if n-c > k50+1 && n-c < k95 {
-				Select(x, k50+2, k95-1, n-c)
-			}
-		}
+		z.orderStats(x, lo, hi, want[:nw], val[:nw])
 	}
-	q := func(p float64, k int) float64 {
+	q := func(p float64, i int) float64 {
 		h := float64(n-1) * p
-		if k >= n-1 {
-			return x[n-1]
-		}
-		return x[k] + (h-float64(k))*(x[k+1]-x[k])
+		a, b := val[i], val[i+1]
+		return a + (h-math.Floor(h))*(b-a)
 	}
-	s := Summary{N: n, P05: q(0.05, k05), P50: q(0.5, k50), P95: q(0.95, k95)}
+	s := Summary{N: n, P05: q(0.05, 0), P50: q(0.5, 2), P95: q(0.95, 4)}
 	if withSE {
-		s.MedianSE = math.Max(0, (x[n-c]-x[c-1])/(2*MedianSEZ))
+		s.MedianSE = math.Max(0, (val[7]-val[6])/(2*MedianSEZ))
 	}
 	// Interpolation can put p05 a rounding error above p50 when they are equal.
 	s.P05 = math.Min(s.P05, s.P50)
@@ -120,22 +144,74 @@ func summarize(x []float64, withSE bool) Summary {
 	return s
 }
 
-// qIndex is ⌊(n−1)p⌋, the lower order statistic of the type-7 p-quantile.
-func qIndex(n int, p float64) int { return int(math.Floor(float64(n-1) * p)) }
-
-// minTo moves the minimum of x[lo:hi] to x[lo].
-func minTo(x []float64, lo, hi int) {
-	if lo >= hi {
-		return
+// orderStats sets val[i] to the order statistic want[i] (0-based) of x,
+// whose finite values lie in [lo, hi], lo < hi.
+func (z *Summarizer) orderStats(x []float64, lo, hi float64, want []int, val []float64) {
+	kmin := fkey(lo)
+	span := fkey(hi) - kmin
+	shift := uint(max(0, bits.Len64(span)-12)) // span>>shift < 4096
+	nb := int(span>>shift) + 1
+	counts := z.counts[:nb]
+	clear(counts)
+	for _, v := range x {
+		counts[(fkey(v)-kmin)>>shift]++
 	}
-	m := lo
-	for i := lo + 1; i < hi; i++ {
-		if x[i] < x[m] {
-			m = i
+	// Bin and rank within the bin of each wanted order statistic.
+	var bin, rank [8]int
+	cum, b := 0, 0
+	var orderBuf [8]int
+	order := orderBuf[:len(want)]
+	for i := range order {
+		order[i] = i
+		for j := i; j > 0 && want[order[j]] < want[order[j-1]]; j-- {
+			order[j], order[j-1] = order[j-1], order[j]
 		}
 	}
-	x[lo], x[m] = x[m], x[lo]
+	for _, i := range order {
+		for cum+int(counts[b]) <= want[i] {
+			cum += int(counts[b])
+			b++
+		}
+		bin[i], rank[i] = b, want[i]-cum
+	}
+	// Gather the wanted bins' values, each bin's contiguous in scratch.
+	mark := z.mark[:nb]
+	var start [8]int
+	total := 0
+	nbins := 0
+	for _, i := range order {
+		if mark[bin[i]] == 0 {
+			nbins++
+			mark[bin[i]] = int32(nbins)
+			start[nbins-1] = total
+			total += int(counts[bin[i]])
+		}
+	}
+	if cap(z.scratch) < total {
+		z.scratch = make([]float64, total)
+	}
+	g := z.scratch[:total]
+	var fill [8]int
+	copy(fill[:], start[:])
+	for _, v := range x {
+		if m := mark[(fkey(v)-kmin)>>shift]; m != 0 {
+			g[fill[m-1]] = v
+			fill[m-1]++
+		}
+	}
+	for _, i := range order {
+		m := int(mark[bin[i]]) - 1
+		sub := g[start[m] : start[m]+int(counts[bin[i]])]
+		Select(sub, 0, len(sub)-1, rank[i])
+		val[i] = sub[rank[i]]
+	}
+	for _, i := range order {
+		mark[bin[i]] = 0
+	}
 }
+
+// qIndex is ⌊(n−1)p⌋, the lower order statistic of the type-7 p-quantile.
+func qIndex(n int, p float64) int { return int(math.Floor(float64(n-1) * p)) }
 
 // SelectMany reorders x so that x[k] holds the value it would hold if x were
 // sorted, for every k in ks (ascending, distinct, in range), with everything

@@ -25,7 +25,7 @@ func TestQuantileType7(t *testing.T) {
 func TestSummarizeMatchesSort(t *testing.T) {
 	r := rand.New(rand.NewPCG(1, 1))
 	for _, n := range []int{1, 2, 3, 7, 100, 601, 602, 5000, 10007} {
-		for _, kind := range []string{"normal", "ties", "constant"} {
+		for _, kind := range []string{"normal", "ties", "constant", "heavy", "zeros"} {
 			x := make([]float64, n)
 			for i := range x {
 				switch kind {
@@ -35,6 +35,15 @@ func TestSummarizeMatchesSort(t *testing.T) {
 					x[i] = float64(r.IntN(4))
 				case "constant":
 					x[i] = 2.5
+				case "heavy": // log-normal with σ = 20: values over ~50 decades, both signs
+					x[i] = math.Exp(20*r.NormFloat64()) * float64(1-2*r.IntN(2))
+				case "zeros": // an atom at ±0 and a continuous part
+					x[i] = 0
+					if r.IntN(3) == 0 {
+						x[i] = math.Copysign(0, -1)
+					} else if r.IntN(2) == 0 {
+						x[i] = r.ExpFloat64()
+					}
 				}
 			}
 			sorted := slices.Clone(x)

@@ -267,3 +267,21 @@ func TestFirstDraws(t *testing.T) {
 		}
 	}
 }
+
+// TestFillMatchesSample: Fill draws exactly what repeated Sample calls draw.
+func TestFillMatchesSample(t *testing.T) {
+	mass, ecc := key(t, "mass"), key(t, "eccentricity")
+	for _, d := range []Dist{
+		mk(t)(NewNormal(1, 0.5, mass)), mk(t)(NewNormal(0.95, 0.1, ecc)), mk(t)(NewNormal(-3, 1, mass)),
+		mk(t)(NewSplitNormal(0.1, 0.2, 0.05, ecc)), mk(t)(NewLogNormal(0.5, 3, ecc)), mk(t)(NewUniform(0, 1, ecc)),
+	} {
+		a, b := rand.New(rand.NewPCG(3, 3)), rand.New(rand.NewPCG(3, 3))
+		xs := make([]float64, 5000)
+		d.Fill(a, xs)
+		for i, x := range xs {
+			if y := d.Sample(b); y != x {
+				t.Fatalf("%s: draw %d: Fill %v, Sample %v", d.Describe(), i, x, y)
+			}
+		}
+	}
+}

@@ -200,11 +200,41 @@ func (t *TruncNormal) fromStd(z float64) float64 {
 	return t.dom.clamp(t.Mu + t.Sigma*z)
 }
 
-// Fill draws len(dst) values.
+// Fill draws len(dst) values, exactly as len(dst) calls of Sample would; the
+// common case (a draw strictly inside the domain on the first try) is inlined.
 func (t *TruncNormal) Fill(r *rand.Rand, dst []float64) {
-	for i := range dst {
-		dst[i] = t.Sample(r)
+	if !t.reject {
+		for i := range dst {
+			dst[i] = t.Sample(r)
+		}
+		return
 	}
+	mu, sg, lo, hi := t.Mu, t.Sigma, t.dom.lo, t.dom.hi
+	for i := range dst {
+		x := mu + sg*r.NormFloat64()
+		if x > lo && x < hi {
+			dst[i] = x
+			continue
+		}
+		dst[i] = t.retry(r, x)
+	}
+}
+
+// retry finishes a Sample whose first rejection draw was x.
+func (t *TruncNormal) retry(r *rand.Rand, x float64) float64 {
+	if t.dom.contains(x) {
+		return x
+	}
+	for range 31 {
+		x = t.Mu + t.Sigma*r.NormFloat64()
+		if t.dom.contains(x) {
+			return x
+		}
+	}
+	if t.tail {
+		return t.fromStd(t.tailDraw(r))
+	}
+	return t.fromStd(NormalQuantile(t.pa + t.mass*r.Float64()))
 }
 
 // Mean is the mean of the truncated law (JKB 1994, eq. 13.134).

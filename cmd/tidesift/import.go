@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"strings"
 
@@ -25,6 +26,7 @@ type importOptions struct {
 	Rejects     string // with SkipInvalid: write the rejected rows here as CSV
 	MaxErrors   int
 	Map         string // column map file (TOML)
+	SuggestMap  bool   // print a starter column map for each file; import nothing
 	Sheet       string
 	Table       string
 }
@@ -61,6 +63,9 @@ is written, and the exit status is 3.`,
 			if opts.Rejects != "" && len(args) > 1 {
 				return usageError(cmd, fmt.Errorf("--rejects takes one FILE to import, not %d; import the files one at a time", len(args)))
 			}
+			if opts.SuggestMap && (opts.Map != "" || opts.DryRun || opts.SkipInvalid) {
+				return usageError(cmd, fmt.Errorf("--suggest-map only reads the files' columns; it takes none of --map, --dry-run, --skip-invalid"))
+			}
 			if opts.MaxErrors < 0 {
 				return usageError(cmd, fmt.Errorf("invalid --max-errors %d: want a count ≥ 1, or 0 for the default", opts.MaxErrors))
 			}
@@ -77,6 +82,7 @@ is written, and the exit status is 3.`,
 	cmd.Flags().StringVar(&opts.Rejects, "rejects", "", "with --skip-invalid: write the rejected rows and their reasons to this CSV file")
 	cmd.Flags().IntVar(&opts.MaxErrors, "max-errors", 0, "stop listing problems after this many per file (0: 50)")
 	cmd.Flags().StringVar(&opts.Map, "map", "", "column map (TOML) for a file in a foreign layout")
+	cmd.Flags().BoolVar(&opts.SuggestMap, "suggest-map", false, "print a starter column map for each FILE (guessed from names, units, UCDs); import nothing")
 	cmd.Flags().StringVar(&opts.Sheet, "sheet", "", "workbook sheet to read (default: the first)")
 	cmd.Flags().StringVar(&opts.Table, "table", "", "VOTable TABLE to read, by name or 1-based index (default: the first)")
 	return cmd
@@ -85,6 +91,9 @@ is written, and the exit status is 3.`,
 func runImport(ctx context.Context, opts *importOptions) error {
 	ropt := importers.Options{Format: opts.Format, MaxErrors: opts.MaxErrors, SkipInvalid: opts.SkipInvalid,
 		Sheet: opts.Sheet, Table: opts.Table}
+	if opts.SuggestMap {
+		return suggestMaps(opts, ropt)
+	}
 	if opts.Map != "" {
 		m, err := loadMap(opts.Map)
 		if err != nil {
@@ -96,7 +105,13 @@ func runImport(ctx context.Context, opts *importOptions) error {
 	if err != nil {
 		return err
 	}
-	st, err := opts.app.openStore(ctx, opts.DB, false)
+	db := opts.DB
+	if _, err := os.Stat(db); opts.DryRun && errors.Is(err, fs.ErrNotExist) {
+		// A dry run against no catalog compares with an empty one, and
+		// leaves no file behind.
+		db = ":memory:"
+	}
+	st, err := opts.app.openStore(ctx, db, false)
 	if err != nil {
 		return err
 	}
@@ -113,6 +128,31 @@ func runImport(ctx context.Context, opts *importOptions) error {
 			return fmt.Errorf("import %s: %w", res.File, err)
 		}
 		printImport(w, res, out, opts.DryRun)
+	}
+	return nil
+}
+
+// suggestMaps prints a starter column map for each file.
+func suggestMaps(opts *importOptions, ropt importers.Options) error {
+	for i, path := range opts.Files {
+		f, err := os.Open(path)
+		if err != nil {
+			return fmt.Errorf("suggest a map: %w", err)
+		}
+		m, err := importers.SuggestMap(path, f, ropt)
+		f.Close()
+		if err != nil {
+			return err
+		}
+		if len(opts.Files) > 1 {
+			if i > 0 {
+				fmt.Fprintln(opts.app.Out)
+			}
+			fmt.Fprintf(opts.app.Out, "# ---- map for %s\n", path)
+		}
+		if _, err := fmt.Fprint(opts.app.Out, m); err != nil {
+			return err
+		}
 	}
 	return nil
 }

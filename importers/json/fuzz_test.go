@@ -3,6 +3,7 @@ package json
 import (
 	"bytes"
 	stdjson "encoding/json"
+	"errors"
 	"io"
 	"math"
 	"strconv"
@@ -26,6 +27,7 @@ func FuzzReader(f *testing.F) {
 		f.Add([]byte(s))
 	}
 	f.Fuzz(func(t *testing.T, data []byte) {
+		differential(t, data)
 		for _, r := range []io.Reader{bytes.NewReader(data), noSeek{bytes.NewReader(data)}} {
 			rd, err := NewReader(r, Options{MaxString: 4096, MaxElement: 1 << 16})
 			if err != nil {
@@ -142,4 +144,87 @@ func decoded(tb testing.TB, s string) string {
 		tb.Fatal(err)
 	}
 	return out
+}
+
+// differential checks the reader against encoding/json on inputs that
+// encoding/json reads as an array of flat objects: the reader must accept
+// them (unless it reports a repeated key or a size limit) and give the same
+// values, key by key.
+func differential(t *testing.T, data []byte) {
+	if t := bytes.TrimLeft(data, " \t\r\n"); len(t) == 0 || t[0] != '[' {
+		return // null, or not an array
+	}
+	dec := stdjson.NewDecoder(bytes.NewReader(data))
+	dec.UseNumber()
+	var elems []map[string]any
+	if err := dec.Decode(&elems); err != nil || dec.More() {
+		return
+	}
+	if _, err := dec.Token(); err != io.EOF {
+		return // trailing data; FuzzReader's other checks cover it
+	}
+	for _, m := range elems {
+		if m == nil {
+			return // a null element: not a table
+		}
+		for k, v := range m {
+			switch v.(type) {
+			case map[string]any, []any:
+				return // nested values are refused by design
+			}
+			if strings.TrimSpace(k) == "" {
+				return
+			}
+		}
+	}
+	rd, err := NewReader(bytes.NewReader(data), Options{MaxString: 4096, MaxElement: 1 << 16})
+	if err == nil {
+		var cells []string
+		for i := 0; i < len(elems) && err == nil; i++ {
+			if cells, _, err = rd.Next(); err != nil {
+				break
+			}
+			idx := map[string]int{}
+			for j, c := range rd.Columns() {
+				idx[c.Name] = j
+			}
+			for k, v := range elems[i] {
+				var want string
+				switch v := v.(type) {
+				case string:
+					want = v
+				case stdjson.Number:
+					want = string(v)
+				case bool:
+					want = strconv.FormatBool(v)
+				}
+				j, ok := idx[strings.TrimSpace(k)]
+				if !ok || cells[j] != want {
+					t.Fatalf("element %d key %q: reader gives %q (column found: %v), encoding/json %q", i+1, k, cellAt(cells, j, ok), ok, want)
+				}
+			}
+		}
+		if err == nil {
+			if _, _, err = rd.Next(); err != io.EOF {
+				t.Fatalf("after %d elements: %v, want EOF", len(elems), err)
+			}
+			return
+		}
+	}
+	var le *LimitError
+	keys := 0
+	for _, m := range elems {
+		keys += len(m)
+	}
+	if errors.Is(err, ErrDuplicateKey) || errors.As(err, &le) || (keys == 0 && errors.Is(err, ErrEmpty)) {
+		return
+	}
+	t.Fatalf("encoding/json reads %d flat objects; the reader fails: %v", len(elems), err)
+}
+
+func cellAt(cells []string, j int, ok bool) string {
+	if !ok {
+		return ""
+	}
+	return cells[j]
 }

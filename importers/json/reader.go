@@ -8,6 +8,7 @@ import (
 	"fmt"
 	"io"
 	"strings"
+	"unicode/utf8"
 
 	"tidesift/importers/table"
 )
@@ -22,8 +23,9 @@ const (
 // Errors returned by NewReader and Next, wrapped in a *RowError or returned
 // as they are. Test with errors.Is.
 var (
-	// ErrEmpty is returned by NewReader when the input holds no object.
-	ErrEmpty = errors.New("no JSON objects in the input")
+	// ErrEmpty is returned by NewReader when the input holds no object with
+	// a key: no columns, so no table.
+	ErrEmpty = errors.New("no JSON objects with keys in the input")
 	// ErrNotTable is returned when the input is neither an array of objects
 	// nor a stream of objects, or when an element is not an object.
 	ErrNotTable = errors.New("expected an array of objects or one object per line")
@@ -113,8 +115,9 @@ type Reader struct {
 	seen  []int // seen[i] == gen when column i was set in the current object
 	gen   int
 
-	elem    int  // elements read so far
-	pending bool // cells holds the first object, not yet returned by Next
+	raw     stdjson.RawMessage // the current element, as read
+	elem    int                // elements read so far
+	pending bool               // cells holds the first object, not yet returned by Next
 	prow    int
 	done    bool
 	err     error
@@ -288,7 +291,8 @@ func (rd *Reader) readObject() bool {
 		rd.err = io.EOF
 		return false
 	}
-	tok, err := rd.dec.Token()
+	rd.raw = rd.raw[:0]
+	err := rd.dec.Decode(&rd.raw)
 	if err == io.EOF && !rd.array {
 		rd.err = io.EOF
 		return false
@@ -297,64 +301,137 @@ func (rd *Reader) readObject() bool {
 	if err != nil {
 		return rd.fail("", err)
 	}
-	if d, ok := tok.(stdjson.Delim); !ok || d != '{' {
-		return rd.fail("", fmt.Errorf("%w; found %s", ErrNotTable, describe(tok)))
+	return rd.parseObject(rd.raw)
+}
+
+// parseObject fills rd.cells from one element, which the decoder has checked
+// is well-formed JSON: so the scan below can trust the syntax and only needs
+// to tell objects, strings, numbers, literals and nested values apart.
+func (rd *Reader) parseObject(raw []byte) bool {
+	i := skipSpace(raw, 0)
+	if raw[i] != '{' {
+		return rd.fail("", fmt.Errorf("%w; found %s", ErrNotTable, describeByte(raw[i])))
 	}
 	rd.gen++
-	for i := range rd.cells {
-		rd.cells[i] = ""
+	for j := range rd.cells {
+		rd.cells[j] = ""
 	}
-	for rd.dec.More() {
-		tok, err := rd.dec.Token()
-		if err != nil {
-			return rd.fail("", err)
+	i++
+	for {
+		i = skipSpace(raw, i)
+		switch raw[i] {
+		case '}':
+			return true
+		case ',':
+			i = skipSpace(raw, i+1)
 		}
-		key, ok := tok.(string)
-		if !ok { // the decoder guarantees a string key; be safe
-			return rd.fail("", fmt.Errorf("expected a key, found %s", describe(tok)))
+		kb, next := stringAt(raw, i)
+		i = skipSpace(raw, next)
+		i = skipSpace(raw, i+1) // the colon
+		// The key as bytes; the map lookup below does not allocate for it.
+		var key []byte
+		if bytes.IndexByte(kb, '\\') < 0 && utf8.Valid(kb) {
+			key = bytes.TrimSpace(kb)
+		} else {
+			key = []byte(strings.TrimSpace(decodeString(kb)))
 		}
-		key = strings.TrimSpace(key)
-		if key == "" {
+		if len(key) == 0 {
 			return rd.fail("", ErrEmptyKey)
 		}
-		tok, err = rd.dec.Token()
-		if err != nil {
-			return rd.fail(key, err)
-		}
 		var cell string
-		switch v := tok.(type) {
-		case nil:
-		case string:
-			cell = v
-		case stdjson.Number:
-			cell = string(v)
-		case bool:
-			cell = "false"
-			if v {
-				cell = "true"
+		switch c := raw[i]; c {
+		case '"':
+			vb, next := stringAt(raw, i)
+			if bytes.IndexByte(vb, '\\') < 0 && utf8.Valid(vb) {
+				cell = string(vb)
+			} else {
+				cell = decodeString(vb)
 			}
-		case stdjson.Delim:
-			return rd.fail(key, ErrNested)
-		default:
-			return rd.fail(key, fmt.Errorf("unexpected %s", describe(tok)))
+			i = next
+		case '{', '[':
+			return rd.fail(string(key), ErrNested)
+		case 'n':
+			i += 4
+		case 't':
+			cell, i = "true", i+4
+		case 'f':
+			cell, i = "false", i+5
+		default: // a number
+			j := i
+			for j < len(raw) && !isDelim(raw[j]) {
+				j++
+			}
+			cell, i = string(raw[i:j]), j
 		}
-		i, ok := rd.index[key]
+		col, ok := rd.index[string(key)]
 		if !ok {
 			if rd.strict {
-				return rd.fail(key, ErrUnknownKey)
+				return rd.fail(string(key), ErrUnknownKey)
 			}
-			i = rd.addColumn(key)
+			col = rd.addColumn(string(key))
 		}
-		if rd.seen[i] == rd.gen {
-			return rd.fail(key, ErrDuplicateKey)
+		if rd.seen[col] == rd.gen {
+			return rd.fail(string(key), ErrDuplicateKey)
 		}
-		rd.seen[i] = rd.gen
-		rd.cells[i] = cell
+		rd.seen[col] = rd.gen
+		rd.cells[col] = cell
 	}
-	if _, err := rd.dec.Token(); err != nil { // closing brace
-		return rd.fail("", err)
+}
+
+func skipSpace(b []byte, i int) int {
+	for i < len(b) && (b[i] == ' ' || b[i] == '\t' || b[i] == '\n' || b[i] == '\r') {
+		i++
 	}
-	return true
+	return i
+}
+
+func isDelim(c byte) bool {
+	return c == ',' || c == '}' || c == ']' || c == ' ' || c == '\t' || c == '\n' || c == '\r'
+}
+
+// stringAt returns the raw bytes between the quotes of the string starting
+// at b[i], and the index after its closing quote.
+func stringAt(b []byte, i int) ([]byte, int) {
+	j := i + 1
+	for j < len(b) {
+		switch b[j] {
+		case '\\':
+			j += 2
+			continue
+		case '"':
+			return b[i+1 : j], j + 1
+		}
+		j++
+	}
+	return b[i+1:], len(b)
+}
+
+// decodeString decodes the body of a JSON string with escapes or invalid
+// UTF-8 as encoding/json does (invalid bytes become U+FFFD).
+func decodeString(body []byte) string {
+	q := make([]byte, 0, len(body)+2)
+	q = append(q, '"')
+	q = append(q, body...)
+	q = append(q, '"')
+	var s string
+	if err := stdjson.Unmarshal(q, &s); err != nil {
+		return string(body) // cannot happen: the decoder checked the syntax
+	}
+	return s
+}
+
+func describeByte(c byte) string {
+	switch c {
+	case '[':
+		return "an array"
+	case '"':
+		return "a string"
+	case 'n':
+		return "null"
+	case 't', 'f':
+		return "a boolean"
+	}
+	return "a number"
 }
 
 // Next returns the next row. See table.Reader.

@@ -223,14 +223,20 @@ func TestLimits(t *testing.T) {
 // TestManyRowsStream reads a long generated stream through a pipe; the reader
 // keeps one element at a time, so this mostly checks row numbering far in.
 // TestDeepNestingRefused checks that a million open brackets, in a value or
-// as elements, are refused at once rather than parsed.
+// as elements, are refused by the depth limit before the decoder scans them.
 func TestDeepNestingRefused(t *testing.T) {
 	deep := strings.Repeat("[", 1_000_000)
 	for _, src := range []string{deep, `[{"name":` + deep, "{\"name\":" + deep} {
 		err := readErr(noSeek{strings.NewReader(src)}, Options{})
-		if !errors.Is(err, ErrNested) && !errors.Is(err, ErrNotTable) {
-			t.Errorf("%.12q...: err = %v, want ErrNested or ErrNotTable", src, err)
+		var le *LimitError
+		if !errors.As(err, &le) || le.What != "nesting depth" || le.Limit != DefaultMaxDepth {
+			t.Errorf("%.12q...: err = %v, want a nesting depth LimitError", src, err)
 		}
+	}
+	// A shallow nested value is refused as nested, naming the key.
+	err := readErr(strings.NewReader(`[{"name":"A","mass [kg]":[1,2]}]`), Options{})
+	if !errors.Is(err, ErrNested) || !strings.Contains(err.Error(), `key "mass [kg]"`) {
+		t.Errorf("nested array value: %v", err)
 	}
 }
 

@@ -32,6 +32,42 @@ func TestWriteJSONMatchesEncodingJSON(t *testing.T) {
 	}
 }
 
+// The encoder's corners against encoding/json: 'e' notation, negative
+// numbers, HTML-escaped and non-ASCII strings, empty and nil slices and maps.
+func TestWriteJSONMatchesEncodingJSONCorners(t *testing.T) {
+	r := syntheticResult(40)
+	tg := &r.Targets[0]
+	tg.Name = "Velra <b> & \"I\" \u2028 é \x7f"
+	tg.Score = q(-1e-7, 1.5e-300, 1e22)
+	tg.Metrics.TidalForce = q(5e20, 9.99e20, 1e21)
+	tg.AssumedInputs = []string{}
+	tg.Drivers = []rank.Driver{}
+	tg.Metrics.Retention = map[string]float64{}
+	tg.Flags = map[string]float64{"no_ice": 1}
+	tg.Notes = []string{"a note"}
+	r.Targets[1].AssumedInputs = nil
+	r.Targets[1].Metrics.Retention = nil
+	r.Excluded = []rank.Excluded{{Name: "Osk c IX", Missing: nil}}
+	r.Warnings = []string{}
+	r.Seed = 1<<64 - 1
+	want, err := json.MarshalIndent(r, "", "  ")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got bytes.Buffer
+	if err := WriteJSON(&got, r); err != nil {
+		t.Fatal(err)
+	}
+	if got.String() != string(want)+"\n" {
+		g, w := got.String(), string(want)+"\n"
+		i := 0
+		for i < len(g) && i < len(w) && g[i] == w[i] {
+			i++
+		}
+		t.Errorf("WriteJSON differs from json.MarshalIndent at byte %d:\n got …%.80q\nwant …%.80q", i, g[max(0, i-40):], w[max(0, i-40):])
+	}
+}
+
 func TestWriteJSONNonFiniteIsNull(t *testing.T) {
 	r := sampleResult() // Targets[1] has +Inf, Targets[2] NaN
 	if _, err := json.Marshal(r); err == nil {

@@ -133,6 +133,13 @@ func TestImportDryRunAndNoop(t *testing.T) {
 	if out := mustRun(t, ta, "import", "--dry-run", f); !strings.Contains(out, "dry run, nothing written") {
 		t.Errorf("dry run output %q", out)
 	}
+	if _, err := os.Stat(ta.dbPath); err == nil {
+		t.Errorf("a dry run against no catalog created one")
+	}
+	mustRun(t, ta, "init")
+	if out := mustRun(t, ta, "import", "--dry-run", f); !strings.Contains(out, "would add 22 values") {
+		t.Errorf("dry run output %q", out)
+	}
 	if out := mustRun(t, ta, "revisions"); !strings.Contains(out, "no revisions yet") {
 		t.Errorf("a dry run wrote a revision:\n%s", out)
 	}

@@ -78,8 +78,8 @@ type source struct {
 // buildPlan resolves a moon's inputs: catalog values (measured) first, then
 // the profile's priors (assumed); derived inputs where a direct one is
 // missing. Priors never replace a catalog value.
-func buildPlan(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*plan, error) {
-	in := cat.Inputs(moon)
+func buildPlan(ix *catIndex, moon *schema.Body, prof *profile.Profile) (*plan, error) {
+	in, starName := ix.inputs(moon)
 	var errs []error
 	lookup := func(key string) source {
 		info, _ := profile.PriorKey(key)
@@ -117,7 +117,7 @@ func buildPlan(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*
 	// key: a planet's or star's values are then the same in sample j for all
 	// of its moons, so the joint ranking keeps their correlation.
 	planet := schema.NameKey(moon.Parent)
-	star := schema.NameKey(cat.StarOf(moon))
+	star := schema.NameKey(starName)
 	owner := func(key string) string {
 		info, _ := profile.PriorKey(key)
 		switch info.Body {
@@ -221,6 +221,52 @@ func buildPlan(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*
 	return p, errors.Join(errs...)
 }
 
+// catIndex finds planets and stars by name key in constant time
+// (schema.Catalog's lookups scan every body, which a catalog of thousands of
+// moons cannot afford once per moon).
+type catIndex struct {
+	planets, stars map[string]*schema.Body
+}
+
+func newCatIndex(cat *schema.Catalog) *catIndex {
+	ix := &catIndex{planets: make(map[string]*schema.Body, len(cat.Planets)), stars: make(map[string]*schema.Body, len(cat.Stars))}
+	for i := range cat.Planets {
+		k := schema.NameKey(cat.Planets[i].Name)
+		if _, dup := ix.planets[k]; !dup {
+			ix.planets[k] = &cat.Planets[i]
+		}
+	}
+	for i := range cat.Stars {
+		k := schema.NameKey(cat.Stars[i].Name)
+		if _, dup := ix.stars[k]; !dup {
+			ix.stars[k] = &cat.Stars[i]
+		}
+	}
+	return ix
+}
+
+// inputs is schema.Catalog.Inputs (the moon's parameters over its planet's
+// over its star's) and schema.Catalog.StarOf, through the index.
+func (ix *catIndex) inputs(moon *schema.Body) (map[string]schema.Param, string) {
+	out := make(map[string]schema.Param, len(moon.Params)+4)
+	star := ""
+	if p := ix.planets[schema.NameKey(moon.Parent)]; p != nil {
+		star = p.Parent
+		if s := ix.stars[schema.NameKey(p.Parent)]; s != nil {
+			for k, v := range s.Params {
+				out[k] = v
+			}
+		}
+		for k, v := range p.Params {
+			out[k] = v
+		}
+	}
+	for k, v := range moon.Params {
+		out[k] = v
+	}
+	return out, star
+}
+
 // hash64 is FNV-1a (64 bit).
 func hash64(s string) uint64 {
 	h := uint64(14695981039346656037)
@@ -306,7 +352,7 @@ func (p *plan) assumed() (keys []string, priors map[string]string) {
 // required input gets an error wrapping ErrMissingInputs, with the inputs
 // that could be resolved.
 func Central(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*physics.Derived, []schema.Param, error) {
-	p, err := buildPlan(cat, moon, prof)
+	p, err := buildPlan(newCatIndex(cat), moon, prof)
 	if err != nil {
 		return nil, nil, fmt.Errorf("%s: %w", moon.Name, err)
 	}

@@ -115,12 +115,17 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 		Revision:        cat.Revision,
 	}
 	var ts []target
+	ix := newCatIndex(cat)
 	for i := range cat.Moons {
 		m := &cat.Moons[i]
-		if !opt.Filter.match(m.Parent, cat.StarOf(m)) {
+		star := ""
+		if pl := ix.planets[schema.NameKey(m.Parent)]; pl != nil {
+			star = pl.Parent
+		}
+		if !opt.Filter.match(m.Parent, star) {
 			continue
 		}
-		p, err := buildPlan(cat, m, prof)
+		p, err := buildPlan(ix, m, prof)
 		if err != nil {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("%s (%s): %v; used as a fixed value", m.Name, m.Parent, err))
 		}
@@ -130,7 +135,7 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 				m.Name, m.Parent, ErrMissingInputs, strings.Join(p.missing, ", ")))
 			continue
 		}
-		ts = append(ts, target{moon: m, plan: p, star: cat.StarOf(m)})
+		ts = append(ts, target{moon: m, plan: p, star: star})
 	}
 	N := len(ts)
 	if N == 0 {

@@ -484,3 +484,18 @@ rock_density = { dist = "fixed", value = 3300 }
 		t.Error("the planet mass did not vary")
 	}
 }
+
+// TestIndexMatchesCatalog: the engine's name index gives what the schema's
+// own lookups give.
+func TestIndexMatchesCatalog(t *testing.T) {
+	for _, cat := range []*schema.Catalog{testCatalog(), synth.Catalog(45, 2)} {
+		ix := newCatIndex(cat)
+		for i := range cat.Moons {
+			m := &cat.Moons[i]
+			in, star := ix.inputs(m)
+			if !reflect.DeepEqual(in, cat.Inputs(m)) || star != cat.StarOf(m) {
+				t.Fatalf("%s: index and catalog disagree", m.Name)
+			}
+		}
+	}
+}

@@ -143,10 +143,24 @@ func WriteCSV(w io.Writer, cat *schema.Catalog) error {
 	}
 	bw.WriteString("\n")
 	f := func(x float64) string { return strconv.FormatFloat(x, 'g', 10, 64) }
+	planets := map[string]*schema.Body{}
+	for i := range cat.Planets {
+		planets[cat.Planets[i].Name] = &cat.Planets[i]
+	}
+	stars := map[string]*schema.Body{}
+	for i := range cat.Stars {
+		stars[cat.Stars[i].Name] = &cat.Stars[i]
+	}
 	for i := range cat.Moons {
 		m := &cat.Moons[i]
-		in := cat.Inputs(m)
-		fmt.Fprintf(bw, "%s,%s,%s,%q", m.Name, m.Parent, cat.StarOf(m), Source)
+		pl := planets[m.Parent]
+		in := map[string]schema.Param{}
+		for _, b := range []*schema.Body{stars[pl.Parent], pl, m} {
+			for k, v := range b.Params {
+				in[k] = v
+			}
+		}
+		fmt.Fprintf(bw, "%s,%s,%s,%q", m.Name, m.Parent, pl.Parent, Source)
 		for _, c := range csvColumns {
 			p, ok := in[c.key]
 			if !ok {

@@ -6,7 +6,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -73,9 +75,10 @@ type RankMove struct {
 }
 
 // SaveWorkbook writes the workbook to path. It writes a temporary file in the
-// same directory and renames it, so a failure leaves no half-written workbook.
+// same directory and renames it, so a failure leaves no half-written workbook
+// (and an existing file at path untouched).
 func SaveWorkbook(path string, r *rank.Result, info WorkbookInfo) (err error) {
-	tmp, err := os.CreateTemp(filepath.Dir(path), ".tidesift-*.xlsx.tmp")
+	tmp, err := createSibling(path)
 	if err != nil {
 		return fmt.Errorf("save workbook: %w", err)
 	}
@@ -95,6 +98,25 @@ func SaveWorkbook(path string, r *rank.Result, info WorkbookInfo) (err error) {
 		return fmt.Errorf("save workbook %s: %w", path, err)
 	}
 	return nil
+}
+
+// createSibling creates a new temporary file beside path with mode 0666 less
+// the umask (os.CreateTemp would make it 0600, and the rename would keep that).
+func createSibling(path string) (*os.File, error) {
+	dir, base := filepath.Split(path)
+	var last error
+	for range 10 {
+		name := filepath.Join(dir, fmt.Sprintf(".%s.%d.tmp", base, rand.Uint32()))
+		f, err := os.OpenFile(name, os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o666)
+		if err == nil {
+			return f, nil
+		}
+		if !errors.Is(err, fs.ErrExist) {
+			return nil, err
+		}
+		last = err
+	}
+	return nil, last
 }
 
 // WriteWorkbook writes the review workbook (Office Open XML, .xlsx) of r:

@@ -471,6 +471,29 @@ func TestSaveWorkbook(t *testing.T) {
 	if len(entries) != 1 {
 		t.Errorf("directory holds %d entries, want only the workbook", len(entries))
 	}
+	// The workbook gets the mode any new file gets here (0666 less the umask).
+	ref := filepath.Join(t.TempDir(), "ref")
+	if err := os.WriteFile(ref, nil, 0o666); err != nil {
+		t.Fatal(err)
+	}
+	st, err1 := os.Stat(path)
+	want, err2 := os.Stat(ref)
+	if err1 != nil || err2 != nil || st.Mode().Perm() != want.Mode().Perm() {
+		t.Errorf("workbook mode = %v, want %v (%v, %v)", st.Mode(), want.Mode(), err1, err2)
+	}
+	// A failed write leaves an existing file as it was.
+	if err := os.WriteFile(path, []byte("old"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := SaveWorkbook(path, nil, testInfo(nil)); err == nil {
+		t.Error("nil result saved")
+	}
+	if b, _ := os.ReadFile(path); string(b) != "old" {
+		t.Errorf("failed save changed the existing file to %d bytes", len(b))
+	}
+	if entries, _ := os.ReadDir(dir); len(entries) != 1 {
+		t.Errorf("failed save left %d entries", len(entries))
+	}
 	if err := SaveWorkbook(filepath.Join(dir, "missing", "x.xlsx"), sampleResult(), testInfo(nil)); err == nil {
 		t.Error("saving into a missing directory succeeded")
 	}

@@ -447,12 +447,24 @@ func zipParts(tb testing.TB, b []byte) map[string]string {
 	return out
 }
 
-func TestWorkbookEmptyResult(t *testing.T) {
-	r := sampleResult()
-	r.Targets = nil
-	f := openBook(t, writeBook(t, r, testInfo(nil)))
-	if rows := rawRows(t, f, SheetRanking); len(rows) != 1 {
-		t.Errorf("empty ranking has %d rows, want the header only", len(rows))
+func TestWorkbookSmallResults(t *testing.T) {
+	for n := 0; n <= 1; n++ {
+		r := sampleResult()
+		r.Targets = r.Targets[:n]
+		b := writeBook(t, r, testInfo(&Changes{}))
+		f := openBook(t, b)
+		if rows := rawRows(t, f, SheetRanking); len(rows) != n+1 {
+			t.Errorf("%d targets: Ranking has %d rows, want %d", n, len(rows), n+1)
+		}
+		charts := 0
+		for name := range zipParts(t, b) {
+			if strings.HasPrefix(name, "xl/charts/chart") {
+				charts++
+			}
+		}
+		if charts != n {
+			t.Errorf("%d targets: %d charts, want %d", n, charts, n)
+		}
 	}
 }
 

@@ -271,11 +271,17 @@ func isBusy(err error) bool {
 // attempt, a caller gives up after roughly a minute of continuous contention.
 const retryLimit = 10
 
+// retryBase and retryMax bound withRetry's backoff; tests shorten them.
+var (
+	retryBase = 5 * time.Millisecond
+	retryMax  = time.Second
+)
+
 // withRetry runs f again, with jittered exponential backoff, while it fails
 // because the database is locked. f must be a whole transaction, so a failed
 // attempt has written nothing.
 func withRetry(ctx context.Context, f func() error) error {
-	delay := 5 * time.Millisecond
+	delay := retryBase
 	for attempt := 1; ; attempt++ {
 		err := f()
 		if err == nil || !isBusy(err) || attempt == retryLimit {
@@ -290,7 +296,7 @@ func withRetry(ctx context.Context, f func() error) error {
 			return ctx.Err()
 		case <-time.After(d):
 		}
-		if delay < time.Second {
+		if delay < retryMax {
 			delay *= 2
 		}
 	}

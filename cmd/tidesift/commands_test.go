@@ -186,7 +186,7 @@ func TestDemoBuildsInvented(t *testing.T) {
 	ta := newTestApp(t)
 	// No --db: the demo builds its catalog in a temporary directory.
 	root := newRootCmd(ta.app)
-	root.SetArgs([]string{"demo", "--out", filepath.Join(t.TempDir(), "demo.xlsx")})
+	root.SetArgs([]string{"demo", "--samples", "500", "--out", filepath.Join(t.TempDir(), "demo.xlsx")})
 	if code := report(ta.errOut, root.Execute()); code != 0 {
 		t.Fatalf("demo: exit %d\n%s", code, ta.errOut)
 	}
@@ -204,7 +204,7 @@ func TestDemoBuildsInvented(t *testing.T) {
 // demoCatalog builds the demo catalog at the test app's --db path.
 func demoCatalog(tb testing.TB, ta *testApp) {
 	tb.Helper()
-	mustRun(tb, ta, "demo", "--out", filepath.Join(tb.TempDir(), "demo.xlsx"))
+	mustRun(tb, ta, "demo", "--samples", "100", "--out", filepath.Join(tb.TempDir(), "demo.xlsx"))
 }
 
 func TestRankOutputs(t *testing.T) {

@@ -19,7 +19,9 @@ import (
 type demoOptions struct {
 	app *app
 	DB  string // catalog to build; "" builds one in a temporary directory
-	Out string // workbook to write
+	Out     string // workbook to write
+	Samples int
+	Seed    uint64
 }
 
 func newDemoCmd(a *app, runF func(context.Context, *demoOptions) error) *cobra.Command {
@@ -34,7 +36,7 @@ Teodra b and four exomoon candidates with wide uncertainties and gaps. No value
 describes a real body.
 
 The demo imports the scenario, lists it, ranks it under the default profile
-(ocean; 10,000 samples, seed 1) and writes a review workbook, tidesift-demo.xlsx
+(ocean; 10,000 samples and seed 1 unless --samples and --seed say otherwise) and writes a review workbook, tidesift-demo.xlsx
 in the working directory unless --out names another file. The catalog is built
 in a temporary file that is removed afterwards, unless --db names a file to
 keep (an existing catalog there gets the demo as one more revision, or nothing
@@ -49,6 +51,9 @@ if it has it already).
 			if f := cmd.Flag("db"); f != nil && f.Changed {
 				opts.DB = a.db
 			}
+			if opts.Samples < 1 {
+				return usageError(cmd, fmt.Errorf("invalid --samples %d: want at least 1", opts.Samples))
+			}
 			if runF != nil {
 				return runF(cmd.Context(), opts)
 			}
@@ -56,6 +61,8 @@ if it has it already).
 		},
 	}
 	cmd.Flags().StringVarP(&opts.Out, "out", "o", "tidesift-demo.xlsx", "workbook to write")
+	cmd.Flags().IntVar(&opts.Samples, "samples", rank.DefaultSamples, "Monte Carlo samples per target")
+	cmd.Flags().Uint64Var(&opts.Seed, "seed", 1, "random seed")
 	return cmd
 }
 
@@ -106,7 +113,7 @@ func runDemo(ctx context.Context, opts *demoOptions) error {
 	if err != nil {
 		return err
 	}
-	f := rankFlags{Samples: rank.DefaultSamples, Seed: 1, Profile: defaultProfile}
+	f := rankFlags{Samples: opts.Samples, Seed: opts.Seed, Profile: defaultProfile}
 	ranking, err := opts.app.rankCatalog(ctx, cat, prof, f)
 	if err != nil {
 		return err

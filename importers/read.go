@@ -41,7 +41,7 @@ type reader struct {
 	opt    Options
 	c      collector
 	intern map[string]string
-	moons  map[string]int // moon key → first row
+	moons  *keySet // moon key (planet, name) → first row
 	bodies map[string]*bodyState
 	keybuf []byte
 	params []schema.Param
@@ -61,7 +61,7 @@ func readTable(name string, tr table.Reader, opt Options, res *Result, emit func
 		opt:    opt,
 		c:      collector{list: ErrorList{File: name}, max: opt.maxErrors()},
 		intern: map[string]string{},
-		moons:  map[string]int{},
+		moons:  newKeySet(),
 		bodies: map[string]*bodyState{},
 	}
 	headerRow := 1
@@ -194,6 +194,9 @@ var errNumber = fmt.Errorf("%w; expected a decimal number such as 4.8e22 or 0.00
 // digit separators, which strconv accepts, are refused: tables do not write
 // them, and "1_5" is more likely a typo than fifteen.
 func number(s string) (float64, error) {
+	if v, ok := fastDecimal(s); ok {
+		return v, nil
+	}
 	t := s
 	if len(t) > 0 && (t[0] == '+' || t[0] == '-') {
 		t = t[1:]
@@ -271,11 +274,9 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	// Duplicates, then conflicts with earlier rows about the same planet or star.
 	if rec.Name != "" && planet != "" {
 		rd.keybuf = appendNameKey(append(appendNameKey(rd.keybuf[:0], planet), 0), rec.Name)
-		if first, dup := rd.moons[string(rd.keybuf)]; dup {
+		if first, added := rd.moons.add(rd.keybuf, row); !added {
 			rd.fail(row, p.text[fieldName], "name", rawName,
 				fmt.Errorf("%w: %q of planet %q is also on row %d; give each moon once per file", ErrDuplicateMoon, rec.Name, planet, first), "")
-		} else {
-			rd.moons[string(rd.keybuf)] = row
 		}
 	}
 	if planet != "" {
@@ -407,9 +408,11 @@ func (rd *reader) param(kp *keyPlan, cells []string, row int) (schema.Param, boo
 	if bad {
 		return schema.Param{}, false
 	}
-	if err := u.Validate(); err != nil { // a backstop: the checks above should have caught it
-		rd.fail(row, vi, key, vs, err, "")
-		return schema.Param{}, false
+	if u.Kind != schema.UncNone {
+		if err := u.Validate(); err != nil { // a backstop: the checks above should have caught it
+			rd.fail(row, vi, key, vs, err, "")
+			return schema.Param{}, false
+		}
 	}
 	return par, true
 }

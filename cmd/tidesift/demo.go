@@ -17,8 +17,8 @@ import (
 )
 
 type demoOptions struct {
-	app *app
-	DB  string // catalog to build; "" builds one in a temporary directory
+	app     *app
+	DB      string // catalog to build; "" builds one in a temporary directory
 	Out     string // workbook to write
 	Samples int
 	Seed    uint64

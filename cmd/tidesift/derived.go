@@ -1,7 +1,6 @@
 package main
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"sort"
@@ -27,11 +26,10 @@ func derivedAtCentral(cat *schema.Catalog, m *schema.Body, prof *profile.Profile
 			assumed = append(assumed, p)
 		}
 	}
-	if errors.Is(err, rank.ErrMissingInputs) {
-		return nil, assumed, []string{err.Error()}, nil
-	}
 	if err != nil {
-		return nil, nil, nil, err
+		// The inputs are still worth showing: say why there are no derived
+		// values (usually ErrMissingInputs: a required input with no prior).
+		return nil, assumed, []string{err.Error()}, nil
 	}
 	c := d.Named()
 	return &c, assumed, nil, nil

@@ -246,14 +246,14 @@ func printImport(w io.Writer, res *importers.Result, out *store.ImportResult, dr
 		fmt.Fprintf(w, "%s: unchanged: already imported as revision %d\n", res.File, out.Duplicate.ID)
 		return
 	case dryRun:
-		fmt.Fprintf(w, "%s: dry run, nothing written: would add %d values, change %d, leave %d unchanged; %d new bodies\n",
-			res.File, out.Added, out.Changed, out.Unchanged, out.NewBodies)
+		fmt.Fprintf(w, "%s: dry run, nothing written: would add %s, change %d, leave %d unchanged; %d new bodies\n",
+			res.File, plural(out.Added, "value"), out.Changed, out.Unchanged, out.NewBodies)
 	case out.Revision == nil:
 		fmt.Fprintf(w, "%s: unchanged: all %d values are already in the catalog; no revision made\n", res.File, out.Unchanged)
 		return
 	default:
-		fmt.Fprintf(w, "%s: revision %d: %s; %d values added, %d changed, %d unchanged; %d new bodies\n",
-			res.File, out.Revision.ID, plural(len(res.Records), "row"), out.Added, out.Changed, out.Unchanged, out.NewBodies)
+		fmt.Fprintf(w, "%s: revision %d: %s; %s added, %d changed, %d unchanged; %d new bodies\n",
+			res.File, out.Revision.ID, plural(len(res.Records), "row"), plural(out.Added, "value"), out.Changed, out.Unchanged, out.NewBodies)
 	}
 	for _, c := range out.Changes {
 		if c.Old == nil || c.New == nil {

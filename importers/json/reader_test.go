@@ -189,6 +189,19 @@ func TestValues(t *testing.T) {
 	}
 }
 
+// TestEncodingDetails covers invalid UTF-8 (replaced by U+FFFD, as
+// encoding/json does) and CRLF line ends in NDJSON.
+func TestEncodingDetails(t *testing.T) {
+	rd, err := NewReader(strings.NewReader("{\"name\":\"bad \xff\xfe here\"}\r\n\r\n{\"name\":\"ok\"}\r\n"), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := readAll(t, rd)
+	if len(got) != 2 || got[0].cells[0] != "bad \uFFFD\uFFFD here" || got[0].n != 1 || got[1].n != 3 {
+		t.Errorf("rows %v", got)
+	}
+}
+
 func TestLimits(t *testing.T) {
 	deep := strings.Repeat("[", 1_000_000)
 	long := `[{"name":"` + strings.Repeat("x", 2<<20) + `"}]`

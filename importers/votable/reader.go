@@ -147,6 +147,11 @@ func NewReader(r io.Reader, opt Options) (*Reader, error) {
 	}
 	rd := &Reader{opt: opt, sel: -1}
 	rd.g = newGuard(r, opt.MaxToken)
+	// A UTF-8 byte-order mark is allowed before the XML declaration; the
+	// decoder would take it for text.
+	if b, err := rd.g.br.Peek(3); err == nil && string(b) == "\xEF\xBB\xBF" {
+		rd.g.br.Discard(3)
+	}
 	rd.dec = xml.NewDecoder(rd.g)
 	rd.dec.Strict = true
 	if err := rd.root(); err != nil {

@@ -289,6 +289,22 @@ func TestErrors(t *testing.T) {
 	}
 }
 
+// TestEncodingDetails covers a byte-order mark, CRLF line ends (XML turns
+// them into LF) and invalid UTF-8 (refused, with its line).
+func TestEncodingDetails(t *testing.T) {
+	doc := func(td string) string {
+		return "<VOTABLE><RESOURCE><TABLE><FIELD name=\"a\" datatype=\"char\" arraysize=\"*\"/><DATA><TABLEDATA>\r\n<TR><TD>" +
+			td + "</TD></TR></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>"
+	}
+	_, rows := mustRead(t, []byte("\xEF\xBB\xBF<?xml version=\"1.0\" encoding=\"UTF-8\"?>\r\n"+doc("a\r\nb")), Options{})
+	if len(rows) != 1 || rows[0].cells[0] != "a\nb" {
+		t.Errorf("BOM and CRLF: rows %v", rows)
+	}
+	if err := readErr(doc("\xff\xfe"), Options{}); err == nil || !strings.Contains(err.Error(), "invalid UTF-8") || !strings.Contains(err.Error(), "line 2") {
+		t.Errorf("invalid UTF-8: %v", err)
+	}
+}
+
 func TestMissingTDsAndEmptyTable(t *testing.T) {
 	src := `<VOTABLE><RESOURCE><TABLE><FIELD name="a" datatype="char"/><FIELD name="b" datatype="int"/>` +
 		`<DATA><TABLEDATA><TR><TD>x</TD></TR><TR/></TABLEDATA></DATA></TABLE></RESOURCE></VOTABLE>`

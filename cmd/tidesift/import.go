@@ -46,12 +46,23 @@ uncertainty companions key_err, key_err_plus/key_err_minus, key_min/key_max,
 key_factor, per-value sources in key_source and a row source in source. See
 README.md for the keys and units.
 
+A file in another layout (an archive table, a colleague's sheet) is read
+through a column map: --suggest-map prints a starter map guessed from the
+file's column names, units and VOTable UCDs; edit it and import with --map.
+CSV, TSV, JSON, XLSX (--sheet) and VOTable (--table) are detected from the
+extension and the content; --format forces one.
+
 Every file is read and validated before anything is written. If any file has a
 problem, every problem found is printed with its file, row and column, nothing
-is written, and the exit status is 3.`,
+is written, and the exit status is 3. With --skip-invalid the valid rows are
+imported and the rejected ones reported (to --rejects FILE as CSV, or on
+standard error). A partial file (some columns, some rows) updates just those
+values; each value it replaces is kept in the history.`,
 		Example: `  tidesift import moons.csv --note "values from the 2026 review"
   tidesift import a.csv b.csv
-  tidesift import update.csv --dry-run`,
+  tidesift import update.csv --dry-run
+  tidesift import archive.vot --suggest-map > map.toml
+  tidesift import archive.vot --map map.toml --skip-invalid --rejects rejects.csv`,
 		Args: usageArgs(cobra.MinimumNArgs(1)),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			opts.DB = a.db

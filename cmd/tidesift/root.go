@@ -161,7 +161,7 @@ Exit status:
 	if v := a.getenv("TIDESIFT_DB"); v != "" {
 		def = v
 	}
-	root.PersistentFlags().StringVar(&a.db, "db", def, "catalog file (default: $TIDESIFT_DB, else tidesift.db)")
+	root.PersistentFlags().StringVar(&a.db, "db", def, "catalog file (or set $TIDESIFT_DB)")
 	root.SetFlagErrorFunc(func(c *cobra.Command, err error) error { return usageError(c, err) })
 	return root
 }

@@ -25,6 +25,7 @@ type slot struct {
 	param   schema.Param // as reported in Target.Inputs
 	assumed bool
 	stream  uint64 // generator stream: the owning body's identity and the key
+	shared  bool   // owned by a planet or star: the same draws for each of its moons
 }
 
 // role is a physics input; each is filled from at most one slot.
@@ -118,21 +119,23 @@ func buildPlan(ix *catIndex, moon *schema.Body, prof *profile.Profile) (*plan, e
 	// of its moons, so the joint ranking keeps their correlation.
 	planet := schema.NameKey(moon.Parent)
 	star := schema.NameKey(starName)
-	owner := func(key string) string {
+	owner := func(key string) (string, bool) {
 		info, _ := profile.PriorKey(key)
 		switch info.Body {
 		case schema.KindStar:
-			return "star\x00" + star
+			return "star\x00" + star, true
 		case schema.KindPlanet:
-			return "planet\x00" + planet
+			return "planet\x00" + planet, true
 		}
-		return "moon\x00" + planet + "\x00" + schema.NameKey(moon.Name)
+		return "moon\x00" + planet + "\x00" + schema.NameKey(moon.Name), false
 	}
 	use := func(r role) {
 		s := src[r]
 		k := roleKeys[r]
+		o, shared := owner(k)
 		p.at[r] = len(p.slots)
-		p.slots = append(p.slots, slot{key: k, dist: s.dist, param: s.param, assumed: !s.measured, stream: hash64(owner(k) + "\x00" + k)})
+		p.slots = append(p.slots, slot{key: k, dist: s.dist, param: s.param, assumed: !s.measured,
+			stream: hash64(o + "\x00" + k), shared: shared})
 	}
 	m, rad, rho := src[rMass], src[rRadius], src[rDensity]
 	switch {

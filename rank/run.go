@@ -316,7 +316,10 @@ type worker struct {
 	prof      *profile.Profile
 	src       rand.PCG
 	rng       *rand.Rand
-	cols      [][]float64
+	cols      [][]float64 // per slot, one chunk
+	view      [][]float64 // per slot, all samples of a shared (planet or star) input
+	chunkCols [][]float64 // per slot, this chunk's values
+	shared    sharedCache
 	metric    [numBuffered][]float64
 	score     []float64
 	acc       []*sensitivity.Accumulator
@@ -341,7 +344,15 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 	S := w.S
 	for len(w.cols) < len(p.slots) {
 		w.cols = append(w.cols, make([]float64, ChunkSize))
+		w.view = append(w.view, nil)
 		w.acc = append(w.acc, sensitivity.NewAccumulator(sensitivity.Partition{M: 1, Lo: 0, Hi: 1}))
+	}
+	// A planet's or star's inputs are drawn once per worker for all samples
+	// and reused by its other moons (same stream, so the same values).
+	for s, sl := range p.slots {
+		if sl.shared {
+			w.view[s] = w.shared.column(sl, seed, S, w)
+		}
 	}
 	// Sensitivity classes from each uncertain input's own distribution.
 	uncertainSlots := w.uncertain[:0]
@@ -360,12 +371,24 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 		g0 := c * ChunkSize
 		n := min(ChunkSize, S-g0)
 		for s, sl := range p.slots {
+			if sl.shared {
+				continue
+			}
 			w.src.Seed(streamSeed(seed, sl.stream, c))
 			sl.dist.Fill(w.rng, w.cols[s][:n])
 		}
+		cols := w.chunkCols[:0]
+		for s, sl := range p.slots {
+			if sl.shared {
+				cols = append(cols, w.view[s][g0:g0+n])
+			} else {
+				cols = append(cols, w.cols[s][:n])
+			}
+		}
+		w.chunkCols = cols
 		for i := range n {
 			g := g0 + i
-			p.inputs(w.cols, i, &w.in)
+			p.inputs(cols, i, &w.in)
 			physics.Evaluate(w.in, w.prof.Model, &w.d)
 			d := &w.d
 			w.metric[mTidalPower][g] = d.TidalPower
@@ -392,7 +415,7 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			row[g] = float32(sc)
 		}
 		for _, s := range uncertainSlots {
-			w.acc[s].AddAll(w.cols[s][:n], w.score[g0:g0+n])
+			w.acc[s].AddAll(cols[s], w.score[g0:g0+n])
 		}
 	}
 
@@ -468,6 +491,43 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			out.Flags[physics.Flag(1<<b).String()] = float64(c) / float64(S)
 		}
 	}
+}
+
+// sharedCache keeps the full sample columns of the planet and star inputs a
+// worker drew last, so the next moon of the same planet or star reuses them.
+type sharedCache struct {
+	entries [8]sharedEntry
+	next    int
+}
+
+type sharedEntry struct {
+	key    string
+	stream uint64
+	param  schema.Param
+	col    []float64
+}
+
+func (c *sharedCache) column(sl slot, seed uint64, S int, w *worker) []float64 {
+	for i := range c.entries {
+		e := &c.entries[i]
+		if e.col != nil && e.stream == sl.stream && e.key == sl.key && e.param.Value == sl.param.Value &&
+			e.param.Unc == sl.param.Unc && e.param.Status == sl.param.Status && e.param.Source == sl.param.Source {
+			return e.col
+		}
+	}
+	e := &c.entries[c.next]
+	c.next = (c.next + 1) % len(c.entries)
+	if cap(e.col) < S {
+		e.col = make([]float64, S)
+	}
+	e.col = e.col[:S]
+	e.key, e.stream, e.param = sl.key, sl.stream, sl.param
+	for ch := 0; ch*ChunkSize < S; ch++ {
+		g0 := ch * ChunkSize
+		w.src.Seed(streamSeed(seed, sl.stream, ch))
+		sl.dist.Fill(w.rng, e.col[g0:min(S, g0+ChunkSize)])
+	}
+	return e.col
 }
 
 // partition spans the 0.5 %–99.5 % quantiles of d with equal-width classes,

@@ -206,6 +206,11 @@ func TestGuessColumn(t *testing.T) {
 		{table.Column{Name: "mass_err_plus"}, false, "mass", "err_plus", ""},
 		{table.Column{Name: "Ref"}, true, "source", "", ""},
 		{table.Column{Name: "xyz"}, false, "ignore", "", ""},
+		{table.Column{Name: "Notes"}, true, "ignore", "", ""},
+		{table.Column{Name: "comments"}, true, "ignore", "", ""},
+		{table.Column{Name: "quality"}, false, "ignore", "", ""},
+		{table.Column{Name: "Semimajor axis (km)"}, false, "semi_major_axis", "", "km"},
+		{table.Column{Name: "eccentricty"}, false, "eccentricity", "", ""},
 		// VOTable UCDs (IVOA UCD1+ controlled vocabulary words).
 		{table.Column{Name: "col1", UCD: "phys.mass", Unit: "kg"}, false, "mass", "", "kg"},
 		{table.Column{Name: "col2", UCD: "stat.error;phys.mass", Unit: "kg"}, false, "mass", "err", "kg"},

@@ -196,6 +196,19 @@ var synonyms = map[string]string{
 	"lum":               "star_luminosity", "luminosity": "star_luminosity",
 }
 
+// longSynonyms are the synonyms long enough to match by near spelling, sorted
+// so that ties resolve the same way every run.
+var longSynonyms = func() []string {
+	var out []string
+	for s := range synonyms {
+		if len(s) >= 4 {
+			out = append(out, s)
+		}
+	}
+	sort.Strings(out)
+	return out
+}()
+
 // hostPrefixes turn a moon key into its host's: pl_mass → planet_mass.
 var hostPrefixes = []struct{ prefix, body string }{
 	{"planet_", "planet"}, {"pl_", "planet"}, {"host_", "planet"}, {"p_", "planet"},
@@ -447,22 +460,16 @@ func lookupBase(b string) string {
 	}
 	if len(b) >= 5 {
 		best, bestD := "", 3
-		names := make([]string, 0, len(synonyms))
-		for s := range synonyms {
-			names = append(names, s)
-		}
-		sort.Strings(names)
-		for _, s := range names {
-			if len(s) < 4 {
-				continue
+		for _, syn := range longSynonyms {
+			d := levenshtein(b, syn)
+			if len(syn) >= 5 && strings.HasPrefix(b, syn) {
+				d = min(d, 1) // "semimajoraxis_km" starts with "semimajor"
 			}
-			if d := levenshtein(b, s); d < bestD || (strings.HasPrefix(b, s) && len(s) >= 5 && bestD > 1) {
-				best, bestD = synonyms[s], min(d, 1)
+			if d < bestD {
+				best, bestD = synonyms[syn], d
 			}
 		}
-		if bestD <= 2 && best != "" {
-			return best
-		}
+		return best
 	}
 	return ""
 }

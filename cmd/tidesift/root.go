@@ -153,6 +153,7 @@ Exit status:
   tidesift show Varkesh`,
 		SilenceErrors: true,
 		SilenceUsage:  true,
+		Version:       version(),
 	}
 	root.SetIn(a.In)
 	root.SetOut(a.Out)

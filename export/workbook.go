@@ -147,7 +147,7 @@ func WriteWorkbook(w io.Writer, r *rank.Result, info WorkbookInfo) error {
 	if info.Created.IsZero() {
 		info.Created = time.Now()
 	}
-	b, err := newBook()
+	b, err := newBook(w)
 	if err != nil {
 		return fmt.Errorf("write workbook: %w", err)
 	}
@@ -193,10 +193,24 @@ func WriteWorkbook(w io.Writer, r *rank.Result, info WorkbookInfo) error {
 		return fmt.Errorf("write workbook: document properties: %w", err)
 	}
 	// No SetActiveSheet: it would parse every streamed sheet back; Ranking is first and active.
-	if err := b.f.Write(w); err != nil {
+	// The zip writer streams to w itself (see newBook); whatever excelize
+	// buffers besides must be empty.
+	if err := b.f.Write(mustStayEmpty{}); err != nil {
 		return fmt.Errorf("write workbook: %w", err)
 	}
 	return nil
+}
+
+// mustStayEmpty receives excelize's in-memory copy of the workbook, which is
+// empty because the zip goes straight to the destination; a library change
+// that put bytes there would corrupt the output, so it fails loudly instead.
+type mustStayEmpty struct{}
+
+func (mustStayEmpty) Write(p []byte) (int, error) {
+	if len(p) == 0 {
+		return 0, nil
+	}
+	return 0, errors.New("excelize buffered workbook bytes outside the zip writer (library behaviour changed)")
 }
 
 // book holds the file being written and its styles.
@@ -211,12 +225,15 @@ type book struct {
 	numFmt map[string]int // number format → style
 }
 
-func newBook() (*book, error) {
+func newBook(dst io.Writer) (*book, error) {
 	f := excelize.NewFile()
-	// Deflate at its fastest level: a 10,000-target workbook holds ~100 MB of
-	// sheet XML, and the default level costs seconds for a few percent of size.
-	f.SetZipWriter(func(w io.Writer) excelize.ZipWriter {
-		zw := zip.NewWriter(w)
+	// The zip goes straight to dst instead of into the buffer excelize hands
+	// over (File.Write would hold the whole workbook in memory, then copy it).
+	// Deflate runs at its fastest level: a 10,000-target workbook holds
+	// ~150 MB of sheet XML, and the default level costs seconds for a few
+	// percent of size.
+	f.SetZipWriter(func(io.Writer) excelize.ZipWriter {
+		zw := zip.NewWriter(dst)
 		zw.RegisterCompressor(zip.Deflate, func(out io.Writer) (io.WriteCloser, error) {
 			return flate.NewWriter(out, flate.BestSpeed)
 		})

@@ -449,25 +449,3 @@ func (rd *Reader) Next() ([]string, int, error) {
 	}
 	return rd.cells, rd.row(), nil
 }
-
-func describe(tok stdjson.Token) string {
-	switch v := tok.(type) {
-	case nil:
-		return "null"
-	case string:
-		return "a string"
-	case stdjson.Number:
-		return "a number"
-	case bool:
-		return "a boolean"
-	case stdjson.Delim:
-		if v == '[' {
-			return "an array"
-		}
-		if v == '{' {
-			return "an object"
-		}
-		return fmt.Sprintf("%q", string(v))
-	}
-	return fmt.Sprintf("%T", tok)
-}

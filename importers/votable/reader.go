@@ -222,7 +222,7 @@ func (rd *Reader) token() (xml.Token, error) {
 	if err != nil {
 		return nil, err
 	}
-	switch t := tok.(type) {
+	switch tok.(type) {
 	case xml.StartElement:
 		rd.depth++
 		if rd.depth > rd.opt.MaxDepth {
@@ -230,10 +230,8 @@ func (rd *Reader) token() (xml.Token, error) {
 		}
 	case xml.EndElement:
 		rd.depth--
-	case xml.Directive:
+	case xml.Directive: // the guard refuses these first; kept as a second line
 		return nil, fmt.Errorf("line %d: %w", rd.g.line, ErrDeclaration)
-	case xml.ProcInst:
-		_ = t
 	}
 	return tok, nil
 }
@@ -331,7 +329,7 @@ func (rd *Reader) seek() (bool, error) {
 					return false, err
 				}
 			case "STREAM":
-				if err := rd.skipStream(t); err != nil {
+				if err := rd.skipStream(); err != nil {
 					return false, err
 				}
 			}
@@ -374,7 +372,7 @@ func (rd *Reader) end() error {
 
 // skipStream passes over the content of a STREAM element not being read,
 // without letting the decoder hold it (it may be a large base64 text).
-func (rd *Reader) skipStream(se xml.StartElement) error {
+func (rd *Reader) skipStream() error {
 	b := &base64Text{g: rd.g}
 	for !b.done {
 		if _, err := rd.g.br.Peek(1); err != nil {
@@ -406,7 +404,7 @@ func (rd *Reader) skipElement() error {
 			return rd.errf(err)
 		}
 		if se, ok := tok.(xml.StartElement); ok && se.Name.Local == "STREAM" {
-			if err := rd.skipStream(se); err != nil {
+			if err := rd.skipStream(); err != nil {
 				return err
 			}
 		}
@@ -452,7 +450,7 @@ func (rd *Reader) skipTable(ti *TableInfo) error {
 		}
 		switch {
 		case se.Name.Local == "STREAM":
-			if err := rd.skipStream(se); err != nil {
+			if err := rd.skipStream(); err != nil {
 				return err
 			}
 		case rd.depth == depth+1 && se.Name.Local == "FIELD":
@@ -490,8 +488,8 @@ func (rd *Reader) openTable(ti *TableInfo) error {
 		if err != nil {
 			return rd.errf(err)
 		}
-		if ee, ok := tok.(xml.EndElement); ok && rd.depth < depth {
-			_ = ee // the table ends without DATA: no rows
+		if _, ok := tok.(xml.EndElement); ok && rd.depth < depth {
+			// The table ends without DATA: no rows.
 			rd.mode = modeNone
 			rd.setColumns()
 			return nil

@@ -17,6 +17,9 @@ import (
 	"tidesift/schema"
 )
 
+// maxColumns bounds the work a hostile header can cause.
+const maxColumns = 4096
+
 // bodyVal is the first value a planet or star was given in this file.
 type bodyVal struct {
 	p    schema.Param
@@ -69,6 +72,10 @@ func readTable(name string, tr table.Reader, opt Options, res *Result, emit func
 		headerRow = hr.HeaderRow()
 	}
 	cols := tr.Columns()
+	if len(cols) > maxColumns {
+		rd.c.add(&ParseError{File: name, Row: headerRow, Err: fmt.Errorf("%w: the header has %d columns; tidesift reads at most %d", ErrTableSyntax, len(cols), maxColumns)})
+		return rd.c.err()
+	}
 	res.Columns = make([]string, len(cols))
 	for i, c := range cols {
 		res.Columns[i] = c.Name

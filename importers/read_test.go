@@ -436,3 +436,11 @@ func TestUnitOnCompanion(t *testing.T) {
 	near(t, "radius", p.Value, 1e5, 0)
 	near(t, "radius σ in its own unit", p.Unc.Sigma, 250, 0)
 }
+
+func TestTooManyColumns(t *testing.T) {
+	in := "name,planet" + strings.Repeat(",", 100000) + "\n"
+	_, err := Read("wide.csv", strings.NewReader(in), Options{})
+	if !errors.Is(err, ErrTableSyntax) || !strings.Contains(err.Error(), "100002 columns") {
+		t.Errorf("wide header: %v", err)
+	}
+}

@@ -32,6 +32,9 @@ func SuggestMap(name string, r io.Reader, opt Options) (string, error) {
 		return "", fmt.Errorf("suggest a map for %s: %w", name, err)
 	}
 	cols := tr.Columns()
+	if len(cols) > maxColumns {
+		return "", fmt.Errorf("suggest a map for %s: %w: the header has %d columns; tidesift reads at most %d", name, ErrTableSyntax, len(cols), maxColumns)
+	}
 	// A sample of rows tells text columns from numeric ones.
 	numeric := make([]int, len(cols))
 	text := make([]int, len(cols))

@@ -138,10 +138,9 @@ func displayUnit(unit string, ref float64) (scale float64, shown string) {
 
 // prettyUnit writes the powers in a VOUnits spelling as superscripts for
 // display ("kg/m3" → "kg/m³").
-func prettyUnit(u string) string {
-	r := strings.NewReplacer("m3", "m³", "m2", "m²", "s2", "s²", "**-2", "⁻²", "**-1", "⁻¹")
-	return r.Replace(u)
-}
+func prettyUnit(u string) string { return unitPowers.Replace(u) }
+
+var unitPowers = strings.NewReplacer("m3", "m³", "m2", "m²", "s2", "s²", "**-2", "⁻²", "**-1", "⁻¹")
 
 // formatFixed formats v with d decimals; NaN and ±Inf get their own marks and
 // a rounded negative zero loses its sign.

@@ -38,6 +38,9 @@ type ImportRequest struct {
 	// OmitChanges leaves ImportResult.Changes empty (the counts are still
 	// filled). A million-value import otherwise holds a million ValueChanges.
 	OmitChanges bool
+	// OmitAdded lists only changed values in ImportResult.Changes, not
+	// added ones (which a first import of a large file is all of).
+	OmitAdded bool
 }
 
 // ImportResult says what an import did.

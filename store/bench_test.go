@@ -4,7 +4,10 @@ import (
 	"context"
 	"fmt"
 	"path/filepath"
+	"runtime"
+	"runtime/metrics"
 	"testing"
+	"time"
 )
 
 // BenchmarkImport imports about 100,000 invented values (11,112 moons of 10
@@ -60,4 +63,75 @@ func BenchmarkImport(b *testing.B) {
 			}
 		})
 	}
+}
+
+// BenchmarkImportLarge imports 1,000,000 invented values (111,112 moons) into
+// an empty file catalog and reports the heap the import itself added at its
+// peak (the live heap after each collection, sampled every 10 ms, above the
+// live heap holding the request), with and
+// without ImportResult.Changes.
+//
+//	go test ./store -run '^$' -bench BenchmarkImportLarge -benchtime 1x
+func BenchmarkImportLarge(b *testing.B) {
+	recs := synthRecords(111112, 10, 0)
+	values := 0
+	for _, r := range recs {
+		values += len(r.Params)
+	}
+	ctx := context.Background()
+	for _, omit := range []bool{false, true} {
+		b.Run(fmt.Sprintf("omitChanges=%v", omit), func(b *testing.B) {
+			var peak uint64
+			var cpu float64
+			for i := 0; b.Loop(); i++ {
+				b.StopTimer()
+				s, err := Open(ctx, filepath.Join(b.TempDir(), "large.db"), Options{})
+				if err != nil {
+					b.Fatal(err)
+				}
+				runtime.GC()
+				base := heapInUse()
+				stop := make(chan struct{})
+				done := make(chan uint64)
+				go func() {
+					var max uint64
+					t := time.NewTicker(10 * time.Millisecond)
+					defer t.Stop()
+					for {
+						select {
+						case <-stop:
+							done <- max
+							return
+						case <-t.C:
+							if h := heapInUse(); h > base && h-base > max {
+								max = h - base
+							}
+						}
+					}
+				}()
+				b.StartTimer()
+				c0 := cpuSeconds()
+				if _, err := s.Import(ctx, ImportRequest{File: "large", Records: recs, OmitChanges: omit}); err != nil {
+					b.Fatal(err)
+				}
+				cpu += cpuSeconds() - c0
+				b.StopTimer()
+				close(stop)
+				peak = max(peak, <-done)
+				s.Close()
+				b.StartTimer()
+			}
+			b.ReportMetric(float64(values)*float64(b.N)/b.Elapsed().Seconds(), "values/s")
+			if cpu > 0 {
+				b.ReportMetric(float64(values)*float64(b.N)/cpu, "values/cpu-s")
+			}
+			b.ReportMetric(float64(peak)/(1<<20), "peak-extra-heap-MiB")
+		})
+	}
+}
+
+func heapInUse() uint64 {
+	s := []metrics.Sample{{Name: "/gc/heap/live:bytes"}}
+	metrics.Read(s)
+	return s[0].Value.Uint64()
 }

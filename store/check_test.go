@@ -79,3 +79,31 @@ func TestCheckFindsDamage(t *testing.T) {
 		})
 	}
 }
+
+func TestSchemaConstraintsRefuseBadRows(t *testing.T) {
+	tests := []struct{ name, sql string }{
+		{"unknown uncertainty kind", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev) VALUES (1, 'mass', 1, 'wide', 'measured', 1)"},
+		{"symmetric without sigma", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev) VALUES (1, 'mass', 1, 'symmetric', 'measured', 1)"},
+		{"none with a sigma", "INSERT INTO value (body_id, key, value, unc_kind, sigma, status, set_rev) VALUES (1, 'mass', 1, 'none', 0.1, 'measured', 1)"},
+		{"range with a factor", "INSERT INTO value (body_id, key, value, unc_kind, min, max, factor, status, set_rev) VALUES (1, 'mass', 1, 'range', 0, 2, 3, 'measured', 1)"},
+		{"unknown status", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev) VALUES (1, 'mass', 1, 'none', 'guessed', 1)"},
+		{"superseded by the revision that set it", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev, superseded_rev) VALUES (1, 'mass', 1, 'none', 'measured', 1, 1)"},
+		{"missing body", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev) VALUES (99, 'mass', 1, 'none', 'measured', 1)"},
+		{"missing revision", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev) VALUES (1, 'mass', 1, 'none', 'measured', 99)"},
+		{"second current value", "INSERT INTO value (body_id, key, value, unc_kind, status, set_rev) SELECT body_id, key, 2, 'none', 'measured', set_rev FROM value LIMIT 1"},
+		{"unknown body kind", "INSERT INTO body (kind, name, name_key, created_rev) VALUES ('comet', 'X', 'x', 1)"},
+		{"star with a parent", "INSERT INTO body (kind, name, name_key, parent_id, created_rev) VALUES ('star', 'X', 'x', 1, 1)"},
+		{"moon without a planet", "INSERT INTO body (kind, name, name_key, created_rev) VALUES ('moon', 'X', 'x', 1)"},
+		{"duplicate natural key", "INSERT INTO body (kind, name, name_key, created_rev) SELECT kind, name, name_key, created_rev FROM body WHERE kind = 'planet' LIMIT 1"},
+		{"duplicate file digest", "INSERT INTO revision (time, sha256) SELECT time, sha256 FROM revision WHERE id = 1"},
+		{"short digest", "INSERT INTO revision (time, sha256) VALUES ('2026-01-01T00:00:00Z', 'abc')"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			s := threeRevisions(t)
+			if _, err := s.db.Exec(tt.sql); err == nil {
+				t.Errorf("accepted: %s", tt.sql)
+			}
+		})
+	}
+}

@@ -88,6 +88,7 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string) (re
 		return nil, err
 	}
 	im, err := newImporter(ctx, tx, revID, req.OmitChanges)
+	im.omitAdded = req.OmitAdded
 	if err != nil {
 		return nil, err
 	}
@@ -173,12 +174,13 @@ type childKey struct {
 const valueInsert = "INSERT INTO value (body_id, key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev) VALUES "
 
 type importer struct {
-	ctx  context.Context
-	tx   *sql.Tx
-	rev  int64
-	omit bool
-	res  ImportResult
-	dead map[int]bool // indexes of Changes undone later in the request
+	ctx       context.Context
+	tx        *sql.Tx
+	rev       int64
+	omit      bool
+	omitAdded bool
+	res       ImportResult
+	dead      map[int]bool // indexes of Changes undone later in the request
 
 	findBody, findPlanets, matchMoon, insBody, insAlias                 *sql.Stmt
 	curVals, insValue, insBatch, supersede, updValue, delValue, restore *sql.Stmt
@@ -660,7 +662,7 @@ func (im *importer) setMoon(b *bodyState, cv *curVal, p schema.Param) error {
 // batchRows is how many value rows one multi-row INSERT carries: fewer
 // statement executions (measured about 1.5× faster than one row per INSERT
 // with this driver).
-const batchRows = 16
+const batchRows = 32
 
 const valueInsertRow = "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
 
@@ -701,7 +703,7 @@ func (im *importer) insert(b *bodyState, p schema.Param) (int64, error) {
 }
 
 func (im *importer) addChange(b *bodyState, old *schema.Param, p schema.Param) int {
-	if im.omit {
+	if im.omit || (old == nil && im.omitAdded) {
 		return -1
 	}
 	np := p

@@ -372,3 +372,31 @@ func TestContentHashIgnoresHowTheCatalogWasBuilt(t *testing.T) {
 		t.Error("different content (revision 2) has the same hash")
 	}
 }
+
+func TestImportOmitOptions(t *testing.T) {
+	recs := []schema.Record{rec("Aster", "Test Giant", "", p("mass", 2e22), p("period", 1e5))} // mass changes, period is new
+	tests := []struct {
+		name      string
+		omitAll   bool
+		omitAdded bool
+		want      []string // keys listed in Changes
+	}{
+		{"everything", false, false, []string{"mass", "period"}},
+		{"changed only", false, true, []string{"mass"}},
+		{"nothing", true, false, nil},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			s := memStore(t)
+			mustImport(t, s, firstFile())
+			res := mustImport(t, s, ImportRequest{File: "b.csv", Records: recs, OmitChanges: tt.omitAll, OmitAdded: tt.omitAdded})
+			var keys []string
+			for _, c := range res.Changes {
+				keys = append(keys, c.Key)
+			}
+			if strings.Join(keys, ",") != strings.Join(tt.want, ",") || res.Added != 1 || res.Changed != 1 || res.Revision.Changes != 2 {
+				t.Errorf("Changes keys %v, added %d, changed %d; want %v, 1, 1", keys, res.Added, res.Changed, tt.want)
+			}
+		})
+	}
+}

@@ -16,7 +16,7 @@ lo = 0
 hi = 1
 `))
 	fmt.Println(err)
-	// Output: mine.toml:4:1: criterion[1].metric: unknown metric "tidal_pwr" (valid: tidal_power_w, radiogenic_power_w, heat_flux_w_m2, tidal_force_n, surface_temperature_k, escape_velocity_m_s, water_layer_thickness_m, ice_shell_thickness_m, ocean, ocean_thickness_m, tidal_acceleration_m_s2, equilibrium_temperature_k, rock_fraction, surface_gravity_m_s2, bulk_density_kg_m3, retains:GAS, jeans:GAS)
+	// Output: mine.toml:4:1: criterion[1].metric: unknown metric "tidal_pwr" (valid: tidal_power_w, radiogenic_power_w, heat_flux_w_m2, tidal_force_n, surface_temperature_k, escape_velocity_m_s, water_layer_thickness_m, ice_shell_thickness_m, ocean, ocean_thickness_m, tidal_acceleration_m_s2, equilibrium_temperature_k, rock_fraction, surface_gravity_m_s2, bulk_density_kg_m3, ocean_shell_thickness_m, retains:GAS, jeans:GAS)
 }
 
 func ExampleLoad() {

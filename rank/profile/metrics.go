@@ -28,6 +28,7 @@ const (
 	MetricRockFraction
 	MetricSurfaceGravity
 	MetricBulkDensity
+	MetricOceanShell
 	MetricRetains // needs a volatile: "retains:N2"
 	MetricJeans   // needs a volatile: "jeans:N2"
 	numMetrics
@@ -56,6 +57,7 @@ var metricInfo = [numMetrics]MetricInfo{
 	{"rock_fraction", "", "rock mass fraction of the interior"},
 	{"surface_gravity_m_s2", "m/s2", "surface gravity"},
 	{"bulk_density_kg_m3", "kg/m3", "bulk density"},
+	{"ocean_shell_thickness_m", "m", "ice shell thickness above a qualifying ocean (not computable, so scoring 0, where there is none)"},
 	{"retains:GAS", "0/1", "1 when the escape velocity exceeds six mean thermal speeds of GAS"},
 	{"jeans:GAS", "", "Jeans escape parameter of GAS at the surface"},
 }
@@ -155,6 +157,13 @@ func (c *Criterion) Value(d *physics.Derived) float64 {
 		return d.SurfaceGravity
 	case MetricBulkDensity:
 		return d.BulkDensity
+	case MetricOceanShell:
+		// Only a shell over an ocean counts: a body without ice has a
+		// "shell" of 0 m, which a decreasing ramp would otherwise reward.
+		if !d.OceanQualifies {
+			return math.NaN()
+		}
+		return d.IceShellThickness
 	case MetricRetains:
 		if math.IsNaN(d.JeansParameter[c.volatile]) {
 			return math.NaN()

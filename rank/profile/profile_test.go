@@ -244,6 +244,19 @@ hi = 100
 	if got := p.Score(&d); math.Abs(got-0.9) > 1e-12 {
 		t.Errorf("score %g, want 0.9", got)
 	}
+	shell, err := Parse("s", []byte("[[criterion]]\nmetric = \"ocean_shell_thickness_m\"\ntransfer = \"log_ramp\"\nlo = 1e5\nhi = 1e3\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	d.IceShellThickness = 1e4
+	if got := shell.Score(&d); math.Abs(got-0.5) > 1e-12 {
+		t.Errorf("10 km shell over an ocean: %g, want 0.5", got)
+	}
+	d.OceanQualifies, d.IceShellThickness = false, 0 // no ice: a 0 m "shell" must not score
+	if got := shell.Score(&d); got != 0 {
+		t.Errorf("no ocean: shell score %g, want 0", got)
+	}
+	d.OceanQualifies = true
 	d.OceanThickness = math.NaN() // not computable: the indicator is unknown and scores 0
 	if v := p.Criteria[0].Value(&d); !math.IsNaN(v) {
 		t.Errorf("ocean with NaN thickness: %g, want NaN", v)

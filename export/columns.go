@@ -35,13 +35,12 @@ var metrics = []metric{
 
 // Workbook number formats per kind of quantity.
 const (
-	fmtPower   = "0.00E+00" // powers, forces, fluxes: many orders of magnitude
-	fmtKelvin  = "0.0"
-	fmtWhole   = "#,##0" // metres, m/s
-	fmtProb    = "0.000" // probabilities and scores
-	fmtShare   = "0.0%"
-	fmtRank    = "General" // a median rank is whole or half
-	fmtGeneral = "General"
+	fmtPower  = "0.00E+00" // powers, forces, fluxes: many orders of magnitude
+	fmtKelvin = "0.0"
+	fmtWhole  = "#,##0" // metres, m/s
+	fmtProb   = "0.000" // probabilities and scores
+	fmtShare  = "0.0%"
+	fmtRank   = "General" // a median rank is whole or half
 )
 
 // retainedThreshold is the probability from which a volatile counts as "key

@@ -4,14 +4,16 @@ import (
 	"bytes"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"tidesift/schema"
 )
 
-// FuzzRead checks that Read never panics on arbitrary bytes, in either
-// mode, and that whatever it accepts is a well-formed record set: every
-// record named, its parameters sorted, unique and inside their domains.
+// FuzzRead checks that Read and SuggestMap never panic on arbitrary bytes,
+// that whatever Read accepts is a well-formed record set (every record
+// named, its parameters sorted, unique and inside their domains), and that
+// every suggested map loads.
 func FuzzRead(f *testing.F) {
 	for _, name := range []string{"canonical.csv", "foreign.csv"} {
 		b, err := os.ReadFile(filepath.Join("testdata", name))
@@ -26,7 +28,14 @@ func FuzzRead(f *testing.F) {
 	names := []string{"f.csv", "f.tsv", "f", "f.txt"}
 	f.Fuzz(func(t *testing.T, data []byte, mode uint8) {
 		opt := Options{SkipInvalid: mode&1 == 1, MaxErrors: int(mode>>4) + 1, MaxRecordBytes: 4096}
-		res, err := Read(names[int(mode>>1)%len(names)], bytes.NewReader(data), opt)
+		name := names[int(mode>>1)%len(names)]
+		// A suggested map, whatever the file, loads as written.
+		if s, err := SuggestMap(name, bytes.NewReader(data), opt); err == nil {
+			if _, err := LoadMap(strings.NewReader(s)); err != nil {
+				t.Fatalf("the suggested map does not load: %v\n%s", err, s)
+			}
+		}
+		res, err := Read(name, bytes.NewReader(data), opt)
 		if err != nil {
 			if res != nil {
 				t.Fatalf("error with a result: %v", err)

@@ -7,6 +7,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"tidesift/importers/table"
 	"tidesift/importers/units"
@@ -126,17 +127,24 @@ func suggest(name, format string, cols []table.Column, numeric, text []int) stri
 	}
 	width := 0
 	for _, c := range cols {
-		width = max(width, len(strconv.Quote(c.Name)))
+		width = max(width, len(tomlQuote(c.Name)))
 	}
+	written := map[string]bool{}
 	for i, c := range cols {
 		g := guesses[i]
-		q := strconv.Quote(c.Name)
-		entry := fmt.Sprintf("{ key = %q", g.key)
+		q := tomlQuote(c.Name)
+		if written[c.Name] {
+			// TOML forbids a key twice, and a map could not tell the two apart.
+			fmt.Fprintf(&b, "# %s appears again as column %d: a map cannot tell two columns of one name apart; rename one in the file\n", tomlComment(q), i+1)
+			continue
+		}
+		written[c.Name] = true
+		entry := "{ key = " + tomlQuote(g.key)
 		if g.role != "" {
-			entry += fmt.Sprintf(", role = %q", g.role)
+			entry += ", role = " + tomlQuote(g.role)
 		}
 		if g.unit != "" {
-			entry += fmt.Sprintf(", unit = %q", g.unit)
+			entry += ", unit = " + tomlQuote(g.unit)
 		}
 		entry += " }"
 		var notes []string
@@ -168,8 +176,43 @@ func roleOrValue(r string) string {
 	return "its " + r
 }
 
+// tomlComment makes s safe inside a TOML comment, which may not hold control
+// characters other than tab.
 func tomlComment(s string) string {
-	return strings.NewReplacer("\n", " ", "\r", " ").Replace(s)
+	return strings.Map(func(r rune) rune {
+		if r < 0x20 && r != '\t' || r == 0x7f || r == utf8.RuneError {
+			return ' '
+		}
+		return r
+	}, strings.ToValidUTF8(s, "\uFFFD"))
+}
+
+// tomlQuote writes s as a TOML basic string: quotes, backslashes and control
+// characters escaped, the rest as is (Go's strconv.Quote uses \x and \a
+// escapes TOML lacks).
+func tomlQuote(s string) string {
+	var b strings.Builder
+	b.WriteByte('"')
+	for _, r := range strings.ToValidUTF8(s, "\uFFFD") {
+		switch {
+		case r == '"':
+			b.WriteString(`\"`)
+		case r == '\\':
+			b.WriteString(`\\`)
+		case r == '\t':
+			b.WriteString(`\t`)
+		case r == '\n':
+			b.WriteString(`\n`)
+		case r == '\r':
+			b.WriteString(`\r`)
+		case r < 0x20 || r == 0x7f:
+			fmt.Fprintf(&b, `\u%04X`, r)
+		default:
+			b.WriteRune(r)
+		}
+	}
+	b.WriteByte('"')
+	return b.String()
 }
 
 // synonyms maps normalised column names to keys. Planet- and star-level keys

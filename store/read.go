@@ -418,10 +418,13 @@ func (s *Store) History(ctx context.Context, moon, planet, key string) ([]Histor
 // Diff lists the values added, removed and changed between revisions a and b
 // (0 meaning the latest): what turns the catalog as of a into the catalog as
 // of b. a may be later than b; the list then says how to go back (values set
-// after b show as removed or changed back). The changes are sorted by body
-// kind (stars, planets, moons), then as Snapshot sorts bodies, then by key in
-// the order of schema.Keys. A body that did not exist at a shows its values
-// as added.
+// after b show as removed or changed back). A value changed and then changed
+// back between a and b is not listed. The changes are sorted by body kind
+// (stars, planets, moons), then as Snapshot sorts bodies, then by key in the
+// order of schema.Keys.
+//
+// Only rows set or superseded between the two revisions are read, so the
+// work and memory follow the size of the change, not of the catalog.
 func (s *Store) Diff(ctx context.Context, a, b int64) ([]ValueChange, error) {
 	var out []ValueChange
 	err := s.readTx(ctx, func(q queryer) error {
@@ -434,46 +437,67 @@ func (s *Store) Diff(ctx context.Context, a, b int64) ([]ValueChange, error) {
 		if err != nil {
 			return err
 		}
-		hi := max(ra.ID, rb.ID)
-		bodies, err := loadBodies(ctx, q, hi)
-		if err != nil {
-			return err
+		lo, hi := min(ra.ID, rb.ID), max(ra.ID, rb.ID)
+		if lo == hi {
+			return nil
 		}
 		type vk struct {
 			body int64
 			key  string
 		}
-		before := map[vk]schema.Param{}
-		if err := eachValueAt(ctx, q, ra.ID, func(id int64, p schema.Param) { before[vk{id, p.Key}] = p }); err != nil {
+		type pair struct{ atLo, atHi *schema.Param }
+		touched := map[vk]*pair{}
+		var order []vk
+		rows, err := q.QueryContext(ctx, "SELECT body_id, ifnull(superseded_rev, 0), "+valueColumns+` FROM value
+			WHERE (set_rev > ?1 AND set_rev <= ?2) OR (superseded_rev > ?1 AND superseded_rev <= ?2)`, lo, hi)
+		if err != nil {
+			return err
+		}
+		defer rows.Close()
+		for rows.Next() {
+			var id, sup int64
+			p, err := scanParam(rows, &id, &sup)
+			if err != nil {
+				return err
+			}
+			k := vk{id, p.Key}
+			pr := touched[k]
+			if pr == nil {
+				pr = &pair{}
+				touched[k] = pr
+				order = append(order, k)
+			}
+			switch {
+			case p.Revision <= lo: // held at lo, superseded by hi
+				pr.atLo = &p
+			case sup == 0 || sup > hi: // set after lo, still held at hi
+				pr.atHi = &p
+			} // else set and superseded between the two: not visible from either end
+		}
+		if err := rows.Err(); err != nil {
+			return err
+		}
+		rows.Close()
+		bodies, err := loadBodies(ctx, q, hi)
+		if err != nil {
 			return err
 		}
 		var ids []int64
-		change := func(id int64, key string, old, nw *schema.Param) {
-			sb := bodies[id]
+		for _, k := range order {
+			pr := touched[k]
+			old, nw := pr.atLo, pr.atHi
+			if ra.ID > rb.ID {
+				old, nw = nw, old
+			}
+			if old != nil && nw != nil && sameValue(*old, *nw) || old == nil && nw == nil {
+				continue
+			}
+			sb := bodies[k.body]
 			if sb == nil {
-				return
+				continue
 			}
-			ids = append(ids, id)
-			out = append(out, ValueChange{Kind: sb.b.Kind, Body: sb.b.Name, Parent: sb.b.Parent, Key: key, Old: old, New: nw})
-		}
-		if err := eachValueAt(ctx, q, rb.ID, func(id int64, p schema.Param) {
-			k := vk{id, p.Key}
-			old, ok := before[k]
-			delete(before, k)
-			np := p
-			switch {
-			case !ok:
-				change(id, p.Key, nil, &np)
-			case !sameValue(old, p):
-				op := old
-				change(id, p.Key, &op, &np)
-			}
-		}); err != nil {
-			return err
-		}
-		for k, old := range before {
-			op := old
-			change(k.body, k.key, &op, nil)
+			ids = append(ids, k.body)
+			out = append(out, ValueChange{Kind: sb.b.Kind, Body: sb.b.Name, Parent: sb.b.Parent, Key: k.key, Old: old, New: nw})
 		}
 		sortChanges(out, ids, bodies)
 		return nil

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"math/rand/v2"
 	"strings"
 	"testing"
 	"time"
@@ -132,6 +133,85 @@ func TestSnapshotRevisions(t *testing.T) {
 		}
 		if r.Time.Location() != time.UTC {
 			t.Errorf("revision %d time %v not in UTC", r.ID, r.Time)
+		}
+	}
+}
+
+// naiveDiff compares two whole snapshots; Diff must agree with it.
+func naiveDiff(tb testing.TB, s *Store, a, b int64) map[string]string {
+	tb.Helper()
+	flat := func(c *schema.Catalog) map[string]schema.Param {
+		m := map[string]schema.Param{}
+		for _, list := range [][]schema.Body{c.Stars, c.Planets, c.Moons} {
+			for _, body := range list {
+				for k, p := range body.Params {
+					m[fmt.Sprintf("%s %s/%s %s", body.Kind, body.Name, body.Parent, k)] = p
+				}
+			}
+		}
+		return m
+	}
+	ma, mb := flat(mustSnapshot(tb, s, a)), flat(mustSnapshot(tb, s, b))
+	out := map[string]string{}
+	for k, pb := range mb {
+		if pa, ok := ma[k]; !ok {
+			out[k] = fmt.Sprintf("-→%g", pb.Value)
+		} else if !sameValue(pa, pb) {
+			out[k] = fmt.Sprintf("%g→%g", pa.Value, pb.Value)
+		}
+	}
+	for k, pa := range ma {
+		if _, ok := mb[k]; !ok {
+			out[k] = fmt.Sprintf("%g→-", pa.Value)
+		}
+	}
+	return out
+}
+
+func TestDiffAgreesWithSnapshots(t *testing.T) {
+	s := memStore(t)
+	rng := rand.New(rand.NewPCG(5, 5)) // fixed seed
+	moons := []string{"Aster", "Beryl", "Cinder", "Dune"}
+	for r := 0; r < 8; r++ {
+		var recs []schema.Record
+		for _, m := range moons {
+			if rng.IntN(2) == 0 {
+				continue
+			}
+			// Few distinct values, so values often change back.
+			recs = append(recs, rec(m, "Test Giant", "Test Star",
+				p("mass", float64(1+rng.IntN(3))*1e21), p("radius", float64(1+rng.IntN(2))*1e6),
+				p("planet_mass", float64(1+rng.IntN(2))*1e27)))
+		}
+		if len(recs) == 0 {
+			continue
+		}
+		mustImport(t, s, ImportRequest{File: fmt.Sprintf("r%d", r), Records: recs})
+	}
+	revs, _ := s.Revisions(context.Background())
+	if len(revs) < 4 {
+		t.Fatalf("only %d revisions made", len(revs))
+	}
+	for _, ra := range revs {
+		for _, rb := range revs {
+			cs, err := s.Diff(context.Background(), ra.ID, rb.ID)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := map[string]string{}
+			for _, c := range cs {
+				f := func(p *schema.Param) string {
+					if p == nil {
+						return "-"
+					}
+					return fmt.Sprintf("%g", p.Value)
+				}
+				got[fmt.Sprintf("%s %s/%s %s", c.Kind, c.Body, c.Parent, c.Key)] = f(c.Old) + "→" + f(c.New)
+			}
+			want := naiveDiff(t, s, ra.ID, rb.ID)
+			if fmt.Sprint(got) != fmt.Sprint(want) {
+				t.Errorf("Diff(%d, %d) = %v\nsnapshots say %v", ra.ID, rb.ID, got, want)
+			}
 		}
 	}
 }

@@ -15,7 +15,7 @@ import (
 // catalog: "new" into an empty catalog, "changed" as a second import that
 // changes every value (so each one is superseded). It reports values/s.
 //
-//	go test ./store -run '^$' -bench BenchmarkImport -benchtime 3x
+//	go test ./store -run '^$' -bench 'BenchmarkImport$' -benchtime 3x
 func BenchmarkImport(b *testing.B) {
 	const moons = 11112
 	first := synthRecords(moons, 10, 0)

@@ -184,7 +184,9 @@ type importer struct {
 
 	findBody, findPlanets, matchMoon, insBody, insAlias                 *sql.Stmt
 	curVals, insValue, insBatch, supersede, updValue, delValue, restore *sql.Stmt
-	pending                                                             []any // queued moon value rows, 13 arguments each
+	supersedeBatch                                                      *sql.Stmt
+	pending                                                             []any   // queued moon value rows, 13 arguments each
+	superseded                                                          []int64 // queued ids of moon values to supersede
 	stmts                                                               []*sql.Stmt
 
 	stars      map[string]*bodyState
@@ -217,6 +219,7 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.insValue, valueInsert + valueInsertRow},
 		{&im.insBatch, valueInsert + strings.TrimSuffix(strings.Repeat(valueInsertRow+", ", batchRows), ", ")},
 		{&im.supersede, "UPDATE value SET superseded_rev = ? WHERE id = ?"},
+		{&im.supersedeBatch, "UPDATE value SET superseded_rev = ? WHERE id IN (?" + strings.Repeat(", ?", batchRows-1) + ")"},
 		{&im.updValue, `UPDATE value SET value = ?, unc_kind = ?, sigma = ?, plus = ?, minus = ?, min = ?, max = ?, factor = ?,
 			source = ?, status = ? WHERE id = ?`},
 		{&im.delValue, "DELETE FROM value WHERE id = ?"},
@@ -649,9 +652,7 @@ func (im *importer) setMoon(b *bodyState, cv *curVal, p schema.Param) error {
 		im.res.Unchanged++
 		return nil
 	default:
-		if _, err := im.supersede.ExecContext(im.ctx, im.rev, cv.id); err != nil {
-			return err
-		}
+		im.superseded = append(im.superseded, cv.id) // before the new row is inserted: see queue
 		old := cv.p
 		im.addChange(b, &old, p)
 		im.res.Changed++
@@ -673,6 +674,11 @@ func (im *importer) queue(b *bodyState, p schema.Param) error {
 	if len(im.pending) < batchRows*13 {
 		return nil
 	}
+	// The rows these replace must leave the current set first, or the new
+	// ones would collide with them in the value_key index.
+	if err := im.flushSuperseded(); err != nil {
+		return err
+	}
 	_, err := im.insBatch.ExecContext(im.ctx, im.pending...)
 	im.pending = im.pending[:0]
 	if err != nil {
@@ -681,8 +687,34 @@ func (im *importer) queue(b *bodyState, p schema.Param) error {
 	return nil
 }
 
-// flush inserts the queued rows that did not fill a batch.
+// flushSuperseded marks the queued moon values superseded, batchRows at a time.
+func (im *importer) flushSuperseded() error {
+	ids := im.superseded
+	for len(ids) >= batchRows {
+		args := make([]any, 0, batchRows+1)
+		args = append(args, im.rev)
+		for _, id := range ids[:batchRows] {
+			args = append(args, id)
+		}
+		if _, err := im.supersedeBatch.ExecContext(im.ctx, args...); err != nil {
+			return fmt.Errorf("supersede values: %w", err)
+		}
+		ids = ids[batchRows:]
+	}
+	for _, id := range ids {
+		if _, err := im.supersede.ExecContext(im.ctx, im.rev, id); err != nil {
+			return fmt.Errorf("supersede values: %w", err)
+		}
+	}
+	im.superseded = im.superseded[:0]
+	return nil
+}
+
+// flush writes the queued rows that did not fill a batch.
 func (im *importer) flush() error {
+	if err := im.flushSuperseded(); err != nil {
+		return err
+	}
 	for i := 0; i < len(im.pending); i += 13 {
 		if _, err := im.insValue.ExecContext(im.ctx, im.pending[i:i+13]...); err != nil {
 			return fmt.Errorf("store values: %w", err)

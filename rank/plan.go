@@ -119,23 +119,22 @@ func buildPlan(ix *catIndex, moon *schema.Body, prof *profile.Profile) (*plan, e
 	// of its moons, so the joint ranking keeps their correlation.
 	planet := schema.NameKey(moon.Parent)
 	star := schema.NameKey(starName)
-	owner := func(key string) (string, bool) {
-		info, _ := profile.PriorKey(key)
-		switch info.Body {
-		case schema.KindStar:
-			return "star\x00" + star, true
-		case schema.KindPlanet:
-			return "planet\x00" + planet, true
-		}
-		return "moon\x00" + planet + "\x00" + schema.NameKey(moon.Name), false
-	}
+	starOwner := fnv1a(fnv1a(fnvOffset, "star\x00"), star)
+	planetOwner := fnv1a(fnv1a(fnvOffset, "planet\x00"), planet)
+	moonOwner := fnv1a(fnv1a(fnv1a(fnv1a(fnvOffset, "moon\x00"), planet), "\x00"), schema.NameKey(moon.Name))
 	use := func(r role) {
 		s := src[r]
 		k := roleKeys[r]
-		o, shared := owner(k)
+		h, shared := moonOwner, false
+		switch roleBody[r] {
+		case schema.KindStar:
+			h, shared = starOwner, true
+		case schema.KindPlanet:
+			h, shared = planetOwner, true
+		}
 		p.at[r] = len(p.slots)
 		p.slots = append(p.slots, slot{key: k, dist: s.dist, param: s.param, assumed: !s.measured,
-			stream: hash64(o + "\x00" + k), shared: shared})
+			stream: fnv1a(fnv1a(h, "\x00"), k), shared: shared})
 	}
 	m, rad, rho := src[rMass], src[rRadius], src[rDensity]
 	switch {
@@ -210,17 +209,28 @@ func buildPlan(ix *catIndex, moon *schema.Body, prof *profile.Profile) (*plan, e
 			use(r)
 		}
 	}
-	sort.SliceStable(p.slots, func(i, j int) bool { return keyOrder(p.slots[i].key) < keyOrder(p.slots[j].key) })
+	// Display order: by key, as schema.Keys lists them.
+	var slotRole [numRoles]role
+	for r := range numRoles {
+		if i := p.at[r]; i >= 0 {
+			slotRole[i] = r
+		}
+	}
+	roles := slotRole[:len(p.slots)]
+	sort.SliceStable(roles, func(i, j int) bool { return roleOrder[roles[i]] < roleOrder[roles[j]] })
+	sorted := make([]slot, len(p.slots))
 	for i := range p.at {
 		p.at[i] = -1
 	}
-	for i, s := range p.slots {
-		for r := range numRoles {
-			if roleKeys[r] == s.key {
-				p.at[r] = i
+	for i, r := range roles {
+		for _, sl := range p.slots {
+			if sl.key == roleKeys[r] {
+				sorted[i] = sl
 			}
 		}
+		p.at[r] = i
 	}
+	p.slots = sorted
 	return p, errors.Join(errs...)
 }
 
@@ -270,9 +280,10 @@ func (ix *catIndex) inputs(moon *schema.Body) (map[string]schema.Param, string) 
 	return out, star
 }
 
-// hash64 is FNV-1a (64 bit).
-func hash64(s string) uint64 {
-	h := uint64(14695981039346656037)
+const fnvOffset = 14695981039346656037
+
+// fnv1a continues a 64-bit FNV-1a hash h over s.
+func fnv1a(h uint64, s string) uint64 {
 	for i := 0; i < len(s); i++ {
 		h ^= uint64(s[i])
 		h *= 1099511628211
@@ -280,14 +291,21 @@ func hash64(s string) uint64 {
 	return h
 }
 
-func keyOrder(k string) int {
-	for i, info := range schema.Keys {
-		if info.Key == k {
-			return i
+// roleBody is the kind of body that owns each role's key, and roleOrder its
+// position in schema.Keys (display order of Target.Inputs).
+var roleBody, roleOrder = func() (b [numRoles]schema.Kind, o [numRoles]int) {
+	for r := range numRoles {
+		info, _ := profile.PriorKey(roleKeys[r])
+		b[r] = info.Body
+		o[r] = len(schema.Keys)
+		for i, k := range schema.Keys {
+			if k.Key == roleKeys[r] {
+				o[r] = i
+			}
 		}
 	}
-	return len(schema.Keys)
-}
+	return
+}()
 
 // inputs assembles the physics inputs of sample i from slot-major columns.
 func (p *plan) inputs(cols [][]float64, i int, in *physics.Inputs) {

@@ -505,3 +505,22 @@ func TestIndexMatchesCatalog(t *testing.T) {
 		}
 	}
 }
+
+// TestNoPerSampleAllocations: Run's allocations do not grow with the sample
+// count beyond its sample-sized buffers (the score matrix and one set of
+// per-worker buffers), so the sample loop allocates nothing.
+func TestNoPerSampleAllocations(t *testing.T) {
+	cat := testCatalog()
+	prof := mustProfile(t, "ocean")
+	allocs := func(s int) float64 {
+		return testing.AllocsPerRun(3, func() {
+			if _, err := Run(context.Background(), cat, prof, Options{Samples: s, Workers: 1}); err != nil {
+				t.Fatal(err)
+			}
+		})
+	}
+	a, b := allocs(2*ChunkSize), allocs(16*ChunkSize)
+	if b > a+20 {
+		t.Errorf("allocations grow with samples: %v at %d, %v at %d", a, 2*ChunkSize, b, 16*ChunkSize)
+	}
+}

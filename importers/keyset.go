@@ -3,6 +3,7 @@ package importers
 import (
 	"bytes"
 	"hash/maphash"
+	"math"
 )
 
 // keySet remembers byte-string keys with the row that first gave each. It is
@@ -12,22 +13,25 @@ import (
 // so the set is exact.
 type keySet struct {
 	hash    func([]byte) uint64 // replaced in tests to force collisions
-	index   map[uint64]int
+	index   map[uint64]int32
 	entries []keyEntry
 	arena   []byte
 }
 
+// keyEntry is 12 bytes: a file of a million moons keeps a million of them.
 type keyEntry struct {
-	off, n, row int
+	off    uint32 // in arena
+	n, row int32
 }
 
 func newKeySet() *keySet {
 	seed := maphash.MakeSeed()
-	return &keySet{hash: func(b []byte) uint64 { return maphash.Bytes(seed, b) }, index: map[uint64]int{}}
+	return &keySet{hash: func(b []byte) uint64 { return maphash.Bytes(seed, b) }, index: map[uint64]int32{}}
 }
 
 // add records key with row; if key is already present it returns the first
-// row and false.
+// row and false. Past its capacity (4 GiB of keys, 2^31 rows) it returns
+// -1 and false.
 func (s *keySet) add(key []byte, row int) (first int, added bool) {
 	h := s.hash(key)
 	for {
@@ -36,13 +40,16 @@ func (s *keySet) add(key []byte, row int) (first int, added bool) {
 			break
 		}
 		e := s.entries[i]
-		if bytes.Equal(s.arena[e.off:e.off+e.n], key) {
-			return e.row, false
+		if bytes.Equal(s.arena[e.off:e.off+uint32(e.n)], key) {
+			return int(e.row), false
 		}
 		h++ // a collision of different keys: probe on
 	}
-	s.index[h] = len(s.entries)
-	s.entries = append(s.entries, keyEntry{off: len(s.arena), n: len(key), row: row})
+	if len(s.arena)+len(key) > math.MaxUint32 || len(s.entries) >= math.MaxInt32 || row > math.MaxInt32 {
+		return -1, false
+	}
+	s.index[h] = int32(len(s.entries))
+	s.entries = append(s.entries, keyEntry{off: uint32(len(s.arena)), n: int32(len(key)), row: int32(row)})
 	s.arena = append(s.arena, key...)
 	return row, true
 }

@@ -8,7 +8,7 @@ import (
 func TestKeySet(t *testing.T) {
 	for name, s := range map[string]*keySet{
 		"maphash":        newKeySet(),
-		"every collides": {hash: func([]byte) uint64 { return 7 }, index: map[uint64]int{}},
+		"every collides": {hash: func([]byte) uint64 { return 7 }, index: map[uint64]int32{}},
 	} {
 		for i := range 300 {
 			if first, added := s.add(fmt.Appendf(nil, "p\x00moon %d", i), i+2); !added || first != i+2 {

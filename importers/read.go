@@ -20,11 +20,14 @@ import (
 // maxColumns bounds the work a hostile header can cause.
 const maxColumns = 4096
 
-// bodyVal is the first value a planet or star was given in this file.
+// bodyVal is the first value a planet or star was given in this file. Only
+// what a comparison and a message need is kept: a file of many planets
+// holds one of these per planet and key.
 type bodyVal struct {
-	p    schema.Param
-	row  int
-	text string // the cell as written, for messages
+	kidx  int // index in schema.Keys
+	row   int
+	value float64
+	unc   schema.Uncertainty
 }
 
 // bodyState tracks one planet or star across the rows of a file, so that two
@@ -35,7 +38,7 @@ type bodyState struct {
 	star    string // planets: the star's display name, "" if none given yet
 	starKey string
 	starRow int
-	vals    []bodyVal // by index in schema.Keys; row 0 means unset
+	vals    []bodyVal // the planet's (or star's) keys seen so far
 }
 
 // reader holds the state of one Read.
@@ -281,7 +284,9 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	// Duplicates, then conflicts with earlier rows about the same planet or star.
 	if rec.Name != "" && planet != "" {
 		rd.keybuf = appendNameKey(append(appendNameKey(rd.keybuf[:0], planet), 0), rec.Name)
-		if first, added := rd.moons.add(rd.keybuf, row); !added {
+		if first, added := rd.moons.add(rd.keybuf, row); first < 0 {
+			rd.fail(row, -1, "", "", fmt.Errorf("%w: too many moons in one file for the duplicate check; split the file", ErrTableSyntax), "")
+		} else if !added {
 			rd.fail(row, p.text[fieldName], "name", rawName,
 				fmt.Errorf("%w: %q of planet %q is also on row %d; give each moon once per file", ErrDuplicateMoon, rec.Name, planet, first), "")
 		}
@@ -497,11 +502,8 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 		if st == nil {
 			continue
 		}
-		if st.vals == nil {
-			continue
-		}
-		old := st.vals[rd.kidx[i]]
-		if old.row == 0 || (old.p.Value == par.Value && old.p.Unc == par.Unc) {
+		old := st.val(rd.kidx[i])
+		if old == nil || (old.value == par.Value && old.unc == par.Unc) {
 			continue
 		}
 		who := fmt.Sprintf("planet %q", rec.Planet)
@@ -511,7 +513,7 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 		ci := rd.colOf(par.Key)
 		rd.fail(row, ci, par.Key, cell(cells, ci),
 			fmt.Errorf("%w: %s has %s %s here but %s on row %d; expected the same value on every row (or give it once)",
-				ErrPlanetConflict, who, par.Key, rd.describe(par.Key, cells), old.text, old.row), "")
+				ErrPlanetConflict, who, par.Key, rd.describe(par.Key, par.Value, par.Unc), rd.describe(par.Key, old.value, old.unc), old.row), "")
 	}
 }
 
@@ -537,45 +539,52 @@ func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
 		default:
 			continue
 		}
-		if st.vals == nil {
-			st.vals = make([]bodyVal, len(schema.Keys))
-		}
-		if v := &st.vals[rd.kidx[i]]; v.row == 0 {
-			*v = bodyVal{p: par, row: row, text: rd.describe(par.Key, cells)}
+		if st.val(rd.kidx[i]) == nil {
+			st.vals = append(st.vals, bodyVal{kidx: rd.kidx[i], row: row, value: par.Value, unc: par.Unc})
 		}
 	}
 }
 
-// describe renders a key's cells on a row as the file wrote them, e.g.
-// "1.2 ± 0.1 jupiterMass".
-func (rd *reader) describe(key string, cells []string) string {
+func (st *bodyState) val(kidx int) *bodyVal {
+	for i := range st.vals {
+		if st.vals[i].kidx == kidx {
+			return &st.vals[i]
+		}
+	}
+	return nil
+}
+
+// describe renders a value and its uncertainty in the unit of the file's
+// column, e.g. "1.2 ± 0.1 jupiterMass" (in SI for a map constant).
+func (rd *reader) describe(key string, v float64, u schema.Uncertainty) string {
+	f, unit := 1.0, ""
 	for i := range rd.p.keys {
 		kp := &rd.p.keys[i]
 		if kp.info.Key != key {
 			continue
 		}
-		if kp.col[roleValue] < 0 {
-			return "(map constant)"
+		if kp.col[roleValue] >= 0 && kp.factor[roleValue] != 0 {
+			f, unit = kp.factor[roleValue], kp.unit
+		} else {
+			unit = kp.info.Unit
 		}
-		s := cell(cells, kp.col[roleValue])
-		if e := cell(cells, kp.col[roleErr]); e != "" {
-			s += " ± " + e
-		}
-		if a, b := cell(cells, kp.col[roleErrPlus]), cell(cells, kp.col[roleErrMinus]); a != "" || b != "" {
-			s += " +" + a + " −" + b
-		}
-		if a, b := cell(cells, kp.col[roleMin]), cell(cells, kp.col[roleMax]); a != "" || b != "" {
-			s += " [" + a + ", " + b + "]"
-		}
-		if f := cell(cells, kp.col[roleFactor]); f != "" {
-			s += " ×/÷ " + f
-		}
-		if kp.unit != "" {
-			s += " " + kp.unit
-		}
-		return strings.Clone(s)
 	}
-	return ""
+	g := func(x float64) string { return strconv.FormatFloat(x/f, 'g', 6, 64) }
+	s := g(v)
+	switch u.Kind {
+	case schema.UncSymmetric:
+		s += " ± " + g(u.Sigma)
+	case schema.UncAsymmetric:
+		s += " +" + g(u.Plus) + " −" + g(u.Minus)
+	case schema.UncRange:
+		s += " [" + g(u.Min) + ", " + g(u.Max) + "]"
+	case schema.UncFactor:
+		s += " ×/÷ " + strconv.FormatFloat(u.Factor, 'g', 6, 64)
+	}
+	if unit != "" {
+		s += " " + unit
+	}
+	return s
 }
 
 func (rd *reader) colOf(key string) int {

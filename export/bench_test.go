@@ -12,6 +12,17 @@ import (
 // system and the bytes it allocated.
 //
 //	go test ./export -run '^$' -bench Workbook10k -benchtime 3x
+//
+// Peak resident memory, against the baseline of building the Result alone:
+//
+//	go test -c -o export.test ./export
+//	/usr/bin/time -v ./export.test -test.run '^$' -test.bench '^BenchmarkBaselineResult10k$' -test.benchtime 1x
+//	/usr/bin/time -v ./export.test -test.run '^$' -test.bench '^BenchmarkWorkbook10k$' -test.benchtime 1x
+//
+// Measured on the project's 2-core machine (other jobs running, load ≈ 2.7):
+// 3.2–3.9 s per workbook (2.9 s user + 0.5 s system CPU), 217–224 MB peak RSS
+// against 57 MB for the Result alone, i.e. about 165 MB beyond the ranking;
+// heap obtained from the system grew by 156–164 MiB.
 func BenchmarkWorkbook10k(b *testing.B) {
 	r := syntheticResult(10_000)
 	info := testInfo(nil)

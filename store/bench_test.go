@@ -135,3 +135,52 @@ func heapInUse() uint64 {
 	metrics.Read(s)
 	return s[0].Value.Uint64()
 }
+
+// BenchmarkSnapshot reads the latest snapshot of a catalog of about 100,000
+// values, and the snapshot as of its first of two revisions.
+//
+//	go test ./store -run '^$' -bench BenchmarkSnapshot
+func BenchmarkSnapshot(b *testing.B) {
+	ctx := context.Background()
+	s, err := Open(ctx, filepath.Join(b.TempDir(), "snap.db"), Options{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	defer s.Close()
+	for i, seed := range []float64{0, 0.5} {
+		if _, err := s.Import(ctx, ImportRequest{File: fmt.Sprint(i), Records: synthRecords(11112, 10, seed), OmitChanges: true}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	for _, rev := range []int64{0, 1} {
+		b.Run(fmt.Sprintf("rev=%d", rev), func(b *testing.B) {
+			for b.Loop() {
+				c, err := s.Snapshot(ctx, rev)
+				if err != nil {
+					b.Fatal(err)
+				}
+				if len(c.Moons) != 11112 {
+					b.Fatalf("%d moons", len(c.Moons))
+				}
+			}
+		})
+	}
+	b.Run("diff", func(b *testing.B) {
+		for b.Loop() {
+			cs, err := s.Diff(ctx, 1, 2)
+			if err != nil {
+				b.Fatal(err)
+			}
+			if len(cs) == 0 {
+				b.Fatal("no changes")
+			}
+		}
+	})
+	b.Run("check", func(b *testing.B) {
+		for b.Loop() {
+			if _, err := s.Check(ctx); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+}

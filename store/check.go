@@ -258,10 +258,11 @@ func check(ctx context.Context, q queryer, rep *CheckReport) error {
 	}
 
 	// Values.
+	var id, sup, created int64
+	ps := newParamScanner(&id, &sup, &created)
 	return eachRow(ctx, q, `SELECT v.body_id, ifnull(v.superseded_rev, 0), ifnull(b.created_rev, 0), `+prefixed("v.", valueColumns)+`
 		FROM value v LEFT JOIN body b ON b.id = v.body_id`, func(r *sql.Rows) error {
-		var id, sup, created int64
-		p, err := scanParam(r, &id, &sup, &created)
+		p, err := ps.scan(r)
 		rep.Values++
 		b, ok := bodies[id]
 		pr := Problem{Kind: b.kind, Body: b.name, Parent: b.parent, Key: p.Key, Revision: p.Revision}

@@ -206,9 +206,10 @@ func eachValueAt(ctx context.Context, q queryer, rev int64, f func(bodyID int64,
 		return err
 	}
 	defer rows.Close()
+	var id int64
+	ps := newParamScanner(&id)
 	for rows.Next() {
-		var id int64
-		p, err := scanParam(rows, &id)
+		p, err := ps.scan(rows)
 		if err != nil {
 			return err
 		}

@@ -52,23 +52,56 @@ func sameValue(a, b schema.Param) bool {
 // scanner is a *sql.Row or *sql.Rows.
 type scanner interface{ Scan(dest ...any) error }
 
+// interner shares one string per distinct key, source, status and
+// uncertainty kind among the rows of a scan: a snapshot of a million values
+// holds a few dozen distinct keys and usually few sources.
+type interner map[string]string
+
+func (in interner) get(b []byte) string {
+	if s, ok := in[string(b)]; ok { // no allocation for the lookup
+		return s
+	}
+	s := string(b)
+	in[s] = s
+	return s
+}
+
 // scanParam reads valueColumns, preceded by the extra destinations.
 func scanParam(sc scanner, extra ...any) (schema.Param, error) {
-	var (
-		p                                  schema.Param
-		kind, status                       string
-		sigma, plus, minus, lo, hi, factor sql.NullFloat64
-	)
-	dest := append(extra, &p.Key, &p.Value, &kind, &sigma, &plus, &minus, &lo, &hi, &factor, &p.Source, &status, &p.Revision)
-	if err := sc.Scan(dest...); err != nil {
-		return p, err
+	return newParamScanner(extra...).scan(sc)
+}
+
+// paramScanner reads valueColumns row after row, reusing its buffers and
+// sharing strings through an interner.
+type paramScanner struct {
+	in                                 interner
+	key, kind, source, status          sql.RawBytes
+	value                              float64
+	rev                                int64
+	sigma, plus, minus, lo, hi, factor sql.NullFloat64
+	dest                               []any
+}
+
+// newParamScanner scans into extra (the columns before valueColumns) and then
+// into its own fields.
+func newParamScanner(extra ...any) *paramScanner {
+	ps := &paramScanner{in: interner{}}
+	ps.dest = append(extra, &ps.key, &ps.value, &ps.kind, &ps.sigma, &ps.plus, &ps.minus, &ps.lo, &ps.hi, &ps.factor,
+		&ps.source, &ps.status, &ps.rev)
+	return ps
+}
+
+func (ps *paramScanner) scan(sc scanner) (schema.Param, error) {
+	if err := sc.Scan(ps.dest...); err != nil {
+		return schema.Param{}, err
 	}
-	k, err := schema.ParseUncKind(kind)
+	p := schema.Param{Key: ps.in.get(ps.key), Value: ps.value, Revision: ps.rev,
+		Source: ps.in.get(ps.source), Status: schema.Status(ps.in.get(ps.status))}
+	k, err := schema.ParseUncKind(ps.in.get(ps.kind))
 	if err != nil {
 		return p, fmt.Errorf("stored value %s: %w", p.Key, err)
 	}
-	p.Unc = schema.Uncertainty{Kind: k, Sigma: sigma.Float64, Plus: plus.Float64, Minus: minus.Float64,
-		Min: lo.Float64, Max: hi.Float64, Factor: factor.Float64}
-	p.Status = schema.Status(status)
+	p.Unc = schema.Uncertainty{Kind: k, Sigma: ps.sigma.Float64, Plus: ps.plus.Float64, Minus: ps.minus.Float64,
+		Min: ps.lo.Float64, Max: ps.hi.Float64, Factor: ps.factor.Float64}
 	return p, nil
 }

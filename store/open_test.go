@@ -309,3 +309,22 @@ func TestReadOnlyStoreRefusesImport(t *testing.T) {
 	s.Close()
 	assertUnchanged(t, path, before)
 }
+
+func TestOpenPathWithURICharacters(t *testing.T) {
+	// '?', '#' and '%' would end or escape an SQLite URI if left as they are.
+	path := filepath.Join(t.TempDir(), "team catalog #1?100%.db")
+	s := mustOpen(t, path)
+	mustImport(t, s, ImportRequest{File: "a.csv", Records: []schema.Record{rec("Aster", "Test Giant", "", p("mass", 1e22))}})
+	s.Close()
+	if _, err := os.Stat(path); err != nil {
+		t.Fatalf("catalog not at the given path: %v", err)
+	}
+	s2, err := Open(context.Background(), path, Options{ReadOnly: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s2.Close()
+	if c := mustSnapshot(t, s2, 0); len(c.Moons) != 1 {
+		t.Errorf("reopened catalog has %d moons", len(c.Moons))
+	}
+}

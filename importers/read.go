@@ -38,7 +38,8 @@ type bodyState struct {
 	star    string // planets: the star's display name, "" if none given yet
 	starKey string
 	starRow int
-	vals    []bodyVal // the planet's (or star's) keys seen so far
+	vals    []bodyVal        // the planet's (or star's) keys seen so far
+	moons   map[uint64]int32 // planets: the moons named so far (see keySet)
 }
 
 // reader holds the state of one Read.
@@ -47,13 +48,14 @@ type reader struct {
 	opt    Options
 	c      collector
 	intern map[string]string
-	moons  *keySet // moon key (planet, name) → first row
+	moons  *keySet // arena of moon name keys; each planet indexes its own
 	bodies map[string]*bodyState
 	keybuf []byte
 	params []schema.Param
 	kinds  []schema.Kind                          // body kind of each of params
 	kidx   []int                                  // index in schema.Keys of each of params
-	slab   []schema.Param                         // backing store of records\' Params
+	slab   []schema.Param                         // backing store of records' Params
+	hosts  []int                                  // positions in params of planet and star keys
 	last   [fieldIgnore]struct{ raw, val string } // one-entry intern caches
 
 	bodybuf    []byte
@@ -128,15 +130,22 @@ func readTable(name string, tr table.Reader, opt Options, res *Result, emit func
 	return rd.c.err()
 }
 
-// alloc copies params into a shared slab, so that a row costs no allocation
-// of its own; each record's slice is capped so appends never overlap.
-func (rd *reader) alloc(params []schema.Param) []schema.Param {
-	if len(rd.slab)+len(params) > cap(rd.slab) {
-		rd.slab = make([]schema.Param, 0, max(4096, len(params)))
+// slabFor returns an empty slice with room for n params at the free end of
+// the shared slab, so that a row's params are built where they will stay: a
+// row costs no allocation or copy of its own. commit keeps them.
+func (rd *reader) slabFor(n int) []schema.Param {
+	if cap(rd.slab)-len(rd.slab) < n {
+		rd.slab = make([]schema.Param, 0, max(4096, n))
 	}
+	return rd.slab[len(rd.slab) : len(rd.slab) : len(rd.slab)+n]
+}
+
+// commit keeps params (built in slabFor's slice) and returns them capped, so
+// that a later append can never reach into the next record's.
+func (rd *reader) commit(params []schema.Param) []schema.Param {
 	i := len(rd.slab)
-	rd.slab = append(rd.slab, params...)
-	return rd.slab[i:len(rd.slab):len(rd.slab)]
+	rd.slab = rd.slab[:i+len(params)]
+	return rd.slab[i : i+len(params) : i+len(params)]
 }
 
 // reject records a bad row: as a Reject under SkipInvalid, as errors otherwise.
@@ -270,21 +279,28 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	}
 
 	// Numeric keys, in key order.
-	params, kinds, kidx := rd.params[:0], rd.kinds[:0], rd.kidx[:0]
+	params, kinds, kidx, hosts := rd.slabFor(len(p.keys)), rd.kinds[:0], rd.kidx[:0], rd.hosts[:0]
 	for i := range p.keys {
 		kp := &p.keys[i]
 		if par, ok := rd.param(kp, cells, row); ok {
+			if kp.info.Body != schema.KindMoon {
+				hosts = append(hosts, len(params))
+			}
 			params = append(params, par)
 			kinds = append(kinds, kp.info.Body)
 			kidx = append(kidx, kp.index)
 		}
 	}
-	rd.params, rd.kinds, rd.kidx = params, kinds, kidx
+	rd.params, rd.kinds, rd.kidx, rd.hosts = params, kinds, kidx, hosts
 
 	// Duplicates, then conflicts with earlier rows about the same planet or star.
 	if rec.Name != "" && planet != "" {
-		rd.keybuf = appendNameKey(append(appendNameKey(rd.keybuf[:0], planet), 0), rec.Name)
-		if first, added := rd.moons.add(rd.keybuf, row); first < 0 {
+		pl := rd.body(schema.KindPlanet, planet, true, row)
+		if pl.moons == nil {
+			pl.moons = make(map[uint64]int32, 8)
+		}
+		rd.keybuf = appendNameKey(rd.keybuf[:0], rec.Name)
+		if first, added := rd.moons.addIn(pl.moons, rd.keybuf, row); first < 0 {
 			rd.fail(row, -1, "", "", fmt.Errorf("%w: too many moons in one file for the duplicate check; split the file", ErrTableSyntax), "")
 		} else if !added {
 			rd.fail(row, p.text[fieldName], "name", rawName,
@@ -299,7 +315,7 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 		return false
 	}
 	if len(params) > 0 {
-		rec.Params = rd.alloc(params)
+		rec.Params = rd.commit(params)
 	}
 	rd.commitBodies(rec, row, cells)
 	return true
@@ -484,7 +500,8 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 	if star == "" && pl != nil {
 		star = pl.star
 	}
-	for i, par := range rd.params {
+	for _, i := range rd.hosts {
+		par := rd.params[i]
 		var st *bodyState
 		kind := rd.kinds[i]
 		switch kind {
@@ -530,7 +547,8 @@ func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
 	if star == "" {
 		star = pl.star
 	}
-	for i, par := range rd.params {
+	for _, i := range rd.hosts {
+		par := rd.params[i]
 		st := pl
 		switch rd.kinds[i] {
 		case schema.KindPlanet:

@@ -78,6 +78,16 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string) (re
 		}
 	}
 	now := s.now()
+	// Revision times never go backwards (Check reports it when they do): a
+	// clock set back makes the new revision share its predecessor's time.
+	var last string
+	if err := tx.QueryRowContext(ctx, "SELECT time FROM revision ORDER BY id DESC LIMIT 1").Scan(&last); err == nil {
+		if t, err := time.Parse(time.RFC3339Nano, last); err == nil && now.Before(t) {
+			now = t
+		}
+	} else if !errors.Is(err, sql.ErrNoRows) {
+		return nil, err
+	}
 	r, err := tx.ExecContext(ctx, "INSERT INTO revision (time, file, sha256, note) VALUES (?, ?, ?, ?)",
 		now.Format(time.RFC3339Nano), req.File, sum, req.Note)
 	if err != nil {

@@ -215,3 +215,22 @@ func TestDiffAgreesWithSnapshots(t *testing.T) {
 		}
 	}
 }
+
+func TestRevisionTimesNeverGoBackwards(t *testing.T) {
+	s := memStore(t)
+	times := []time.Time{
+		time.Date(2026, 5, 1, 0, 0, 0, 0, time.UTC),
+		time.Date(2026, 4, 1, 0, 0, 0, 0, time.UTC), // the clock was set back
+	}
+	i := 0
+	s.Now = func() time.Time { t := times[i]; i++; return t }
+	mustImport(t, s, ImportRequest{File: "a", Records: []schema.Record{rec("Aster", "Test Giant", "", p("mass", 1e22))}})
+	mustImport(t, s, ImportRequest{File: "b", Records: []schema.Record{rec("Beryl", "Test Giant", "", p("mass", 1e22))}})
+	revs, _ := s.Revisions(context.Background())
+	if len(revs) != 2 || !revs[1].Time.Equal(times[0]) {
+		t.Errorf("revision times %v, want the second clamped to %v", revs, times[0])
+	}
+	if rep, err := s.Check(context.Background()); err != nil || !rep.OK() {
+		t.Errorf("Check = %v, %v", rep, err)
+	}
+}

@@ -3,10 +3,15 @@ package importers
 import (
 	"bytes"
 	stdcsv "encoding/csv"
+	"flag"
 	"fmt"
 	"io"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"runtime"
 	"testing"
+	"time"
 
 	"tidesift/schema"
 )
@@ -115,4 +120,44 @@ func BenchmarkBaselineEncodingCSV(b *testing.B) {
 		}
 	}
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/n, "ns/row")
+}
+
+var streamRows = flag.Int("stream-rows", 0, "rows for TestStreamMemory (0 skips it), e.g. 1000000")
+
+// TestStreamMemory reports the importer's live heap while ReadStream reads a
+// generated invented file of -stream-rows rows from disk, records discarded:
+// the state that grows with the file (duplicate check, per-planet values).
+//
+//	go test ./importers -run TestStreamMemory -stream-rows 1000000 -v
+func TestStreamMemory(t *testing.T) {
+	n := *streamRows
+	if n == 0 {
+		t.Skip("set -stream-rows to run")
+	}
+	path := filepath.Join(t.TempDir(), "gen.csv")
+	if err := os.WriteFile(path, genCanonical(n), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	runtime.GC()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows := 0
+	start := time.Now()
+	_, err = ReadStream("gen.csv", f, Options{}, func(*schema.Record) error {
+		rows++
+		if rows%(n/4) == 0 {
+			var m runtime.MemStats
+			runtime.GC()
+			runtime.ReadMemStats(&m)
+			t.Logf("after %d rows: live heap %d MiB (%.0f B/row)", rows, m.HeapAlloc>>20, float64(m.HeapAlloc)/float64(rows))
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("%d rows in %v (including %d forced GCs)", rows, time.Since(start), 4)
 }

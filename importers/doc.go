@@ -103,6 +103,13 @@
 // CSV and TSV are read by importers/csv; formats.go holds the one place
 // where a format name becomes a table.Reader (detectFormat, openTable).
 // The input is hashed (SHA-256) as it streams; no reader holds the whole file.
-// ReadStream hands records to a callback for files too large to keep as a
-// slice of records.
+//
+// # Memory
+//
+// Read keeps one Record per accepted row (about 1.5 KB for a dozen values,
+// most of it schema.Param). ReadStream hands records to a callback instead
+// and keeps only what the cross-row checks need (the duplicate check and the
+// first value of each planet and star): about 110 bytes per row, so a million
+// rows hold roughly 106 MiB live (TestStreamMemory measures it). Records never
+// share memory with the lines they came from.
 package importers

@@ -70,8 +70,12 @@ estimate. Both standard errors fall as 1/sqrt(N): four times the samples
 halve them.
 
 Ranking. The samples of all moons form a joint sample: in sample j every moon
-is ranked by its score (1 = best), ties broken by catalog order so that the
-ranks in every sample are a permutation of 1..M. Each moon's median rank and
+is ranked by its score (1 = best), so the ranks in every sample are a
+permutation of 1..M. Exactly equal scores (common where transfer functions
+clamp at 0 or 1) are put in random order, independently in each sample, by a
+hash of (seed, sample, moon), so that no moon gains from its place in the
+catalog. Scores are ranked at single precision (float32), so scores closer
+than about 1e-7 count as equal. Each moon's median rank and
 5-95 % rank interval are type-7 quantiles of its ranks over the N samples, and
 P(rank <= k) is the fraction of samples in which it ranks in the top k; summed
 over all moons these probabilities are exactly k. Moons are listed by median

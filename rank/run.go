@@ -186,7 +186,11 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 	}
 
 	// Phase 2: rank all targets in every sample, in place.
-	rankSamples(mat, N, S, workers)
+	ids := make([]uint64, N)
+	for i, t := range ts {
+		ids[i] = splitmix64(fnv1a(fnv1a(fnv1a(fnvOffset, schema.NameKey(t.moon.Parent)), "\x00"), schema.NameKey(t.moon.Name)))
+	}
+	rankSamples(mat, N, S, workers, seed, ids)
 
 	// Phase 3: rank statistics per target.
 	next.Store(0)
@@ -230,7 +234,12 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 // written back, so the matrix is read and written in 256-byte runs.
 const rankBlock = 64
 
-func rankSamples(mat []float32, N, S, workers int) {
+// rankSamples ranks every sample's column of mat in place. Exactly equal
+// scores (common where transfers clamp at 0 or 1) are ordered at random, by
+// a hash of (seed, sample, moon identity), so that no moon gains from its
+// place in the catalog; ranks stay a permutation in every sample.
+func rankSamples(mat []float32, N, S, workers int, seed uint64, ids []uint64) {
+	tieSeed := splitmix64(seed ^ 0x7469652d62726b) // "tie-brk"
 	blocks := (S + rankBlock - 1) / rankBlock
 	var next atomic.Int64
 	var wg sync.WaitGroup
@@ -240,6 +249,7 @@ func rankSamples(mat []float32, N, S, workers int) {
 			defer wg.Done()
 			tile := make([]float32, N*rankBlock)
 			col := make([]float32, N)
+			tie := make([]uint32, N)
 			rk := make([]float32, N)
 			var r stats.Ranker
 			for {
@@ -253,10 +263,12 @@ func rankSamples(mat []float32, N, S, workers int) {
 					copy(tile[t*w:(t+1)*w], mat[t*S+j0:t*S+j0+w])
 				}
 				for c := range w {
+					j := uint64(j0 + c)
 					for t := range N {
 						col[t] = tile[t*w+c]
+						tie[t] = uint32(splitmix64(tieSeed^ids[t]^j*0x9e3779b97f4a7c15) >> 32)
 					}
-					r.Ranks(col, rk)
+					r.RanksTies(col, tie, rk)
 					for t := range N {
 						tile[t*w+c] = rk[t]
 					}

@@ -452,18 +452,20 @@ func TestOptions(t *testing.T) {
 }
 
 // TestSharedPlanetDraws: moons of one planet share its draws sample by
-// sample. Two moons identical but for their names, whose only uncertain input
-// is the planet's mass, then tie in every sample, and the tie goes to catalog
-// order: the first ranks first in every sample.
+// sample. Of two moons whose only uncertain input is the planet's mass, the
+// 1 % heavier one has the larger tidal force in every sample, so it ranks
+// first in every sample — with independent draws of a 26 % uncertain planet
+// mass it would lose about half the time. Two identical moons tie in every
+// sample, and the ties go either way with probability 1/2.
 func TestSharedPlanetDraws(t *testing.T) {
-	moon := func(name string) schema.Body {
-		return body(schema.KindMoon, name, "Aurel b", fixed("mass", 4.8e22), fixed("radius", 1560*kmM),
+	moon := func(name string, mass float64) schema.Body {
+		return body(schema.KindMoon, name, "Aurel b", fixed("mass", mass), fixed("radius", 1560*kmM),
 			fixed("semi_major_axis", 671000*kmM), fixed("eccentricity", 0.009))
 	}
 	cat := &schema.Catalog{
 		Stars:   []schema.Body{body(schema.KindStar, "Aurel", "", fixed("star_luminosity", lsunW))},
 		Planets: []schema.Body{body(schema.KindPlanet, "Aurel b", "Aurel", sig("planet_mass", 1.9e27, 5e26), fixed("star_distance", 5.2*auM))},
-		Moons:   []schema.Body{moon("Twin A"), moon("Twin B")},
+		Moons:   []schema.Body{moon("Twin A", 4.8e22), moon("Twin B", 4.848e22), moon("Twin C", 4.8e22)},
 	}
 	prof, err := profile.Parse("t", []byte(`
 top_k = 1
@@ -481,13 +483,33 @@ rock_density = { dist = "fixed", value = 3300 }
 	if err != nil {
 		t.Fatal(err)
 	}
-	res := mustRun(t, cat, prof, Options{Samples: 2000})
-	a, b := res.Targets[0], res.Targets[1]
-	if a.Name != "Twin A" || a.PTop.P != 1 || b.PTop.P != 0 || a.Score != b.Score {
-		t.Errorf("A: %s P=%g score %+v; B: %s P=%g score %+v", a.Name, a.PTop.P, a.Score, b.Name, b.PTop.P, b.Score)
+	const n = 2000
+	res := mustRun(t, cat, prof, Options{Samples: n})
+	get := func(name string) Target {
+		return res.Targets[slices.IndexFunc(res.Targets, func(x Target) bool { return x.Name == name })]
 	}
-	if a.Score.P05 == a.Score.P95 {
-		t.Error("the planet mass did not vary")
+	a, b, c := get("Twin A"), get("Twin B"), get("Twin C")
+	if b.PTop.P != 1 || b.Rank != 1 || b.RankP95 != 1 {
+		t.Errorf("heavier twin: P(rank 1) = %g, ranks %g..%g; want first in every sample", b.PTop.P, b.RankP05, b.RankP95)
+	}
+	if a.Score != c.Score || a.Score.P05 == a.Score.P95 {
+		t.Errorf("identical twins: scores %+v and %+v", a.Score, c.Score)
+	}
+	// A and C tie in every sample for ranks 2 and 3: each is second with
+	// probability 1/2 (binomial SE √(0.25/n); five SE).
+	for _, tg := range []Target{a, c} {
+		if tg.RankP05 != 2 || tg.RankP95 != 3 {
+			t.Errorf("%s: ranks %g..%g, want 2..3", tg.Name, tg.RankP05, tg.RankP95)
+		}
+	}
+	res2 := mustRun(t, cat, prof, Options{Samples: n, TopK: 2})
+	for _, tg := range res2.Targets {
+		if tg.Name == "Twin B" {
+			continue
+		}
+		if math.Abs(tg.PTop.P-0.5) > 5*math.Sqrt(0.25/n) {
+			t.Errorf("%s: P(rank ≤ 2) = %g, want 0.5: ties should be broken at random", tg.Name, tg.PTop.P)
+		}
 	}
 }
 

@@ -7,6 +7,7 @@ import "math"
 // always a permutation of 1…n. A Ranker is not safe for concurrent use.
 type Ranker struct {
 	keys, tmp []uint64
+	idx, itmp []uint32
 	count     [1 << 11]int32
 }
 
@@ -102,4 +103,52 @@ func RankStats(ranks []float32, n, k int, counts []int32) (p05, p50, p95 float64
 		counts[int(r)] = 0
 	}
 	return
+}
+
+// RanksTies is Ranks with ties between equal scores broken by tie[i] (lower
+// first) instead of by index; equal (score, tie) pairs fall back to index
+// order. With tie values drawn at random, tied scores get their ranks in
+// random order, so no element gains from its position. It is an LSD radix
+// sort on the 64-bit key (descending score, tie), carrying the indices.
+func (r *Ranker) RanksTies(scores []float32, tie []uint32, ranks []float32) {
+	n := len(scores)
+	if cap(r.keys) < n {
+		r.keys, r.tmp = make([]uint64, n), make([]uint64, n)
+	}
+	if cap(r.idx) < n {
+		r.idx, r.itmp = make([]uint32, n), make([]uint32, n)
+	}
+	keys, tmp := r.keys[:n], r.tmp[:n]
+	idx, itmp := r.idx[:n], r.itmp[:n]
+	for i, s := range scores {
+		keys[i] = uint64(^orderKey(s))<<32 | uint64(tie[i])
+		idx[i] = uint32(i)
+	}
+	for shift := uint(0); shift < 64; shift += 11 {
+		c := &r.count
+		clear(c[:])
+		for _, k := range keys {
+			c[(k>>shift)&0x7ff]++
+		}
+		if int(c[(keys[0]>>shift)&0x7ff]) == n {
+			continue
+		}
+		var sum int32
+		for d := range c {
+			v := c[d]
+			c[d] = sum
+			sum += v
+		}
+		for i, k := range keys {
+			d := (k >> shift) & 0x7ff
+			tmp[c[d]] = k
+			itmp[c[d]] = idx[i]
+			c[d]++
+		}
+		keys, tmp = tmp, keys
+		idx, itmp = itmp, idx
+	}
+	for pos, i := range idx {
+		ranks[i] = float32(pos + 1)
+	}
 }

@@ -177,3 +177,43 @@ func TestSummarizeSE(t *testing.T) {
 		}
 	}
 }
+
+func TestRanksTies(t *testing.T) {
+	r := rand.New(rand.NewPCG(5, 7))
+	var rk Ranker
+	for _, n := range []int{1, 3, 1000, 3001} {
+		scores := make([]float32, n)
+		tie := make([]uint32, n)
+		for i := range scores {
+			scores[i] = float32(r.IntN(5)) / 4 // many ties
+			tie[i] = r.Uint32()
+			if i%10 == 0 {
+				tie[i] = 7 // some equal tie values too: index order
+			}
+		}
+		ranks := make([]float32, n)
+		rk.RanksTies(scores, tie, ranks)
+		idx := make([]int, n)
+		for i := range idx {
+			idx[i] = i
+		}
+		slices.SortStableFunc(idx, func(a, b int) int {
+			switch {
+			case scores[a] > scores[b]:
+				return -1
+			case scores[a] < scores[b]:
+				return 1
+			case tie[a] < tie[b]:
+				return -1
+			case tie[a] > tie[b]:
+				return 1
+			}
+			return 0
+		})
+		for pos, i := range idx {
+			if ranks[i] != float32(pos+1) {
+				t.Fatalf("n=%d: rank of %d = %g, want %d", n, i, ranks[i], pos+1)
+			}
+		}
+	}
+}

@@ -34,8 +34,11 @@ type profileListOptions struct{ app *app }
 func newProfileListCmd(a *app, runF func(context.Context, *profileListOptions) error) *cobra.Command {
 	opts := &profileListOptions{app: a}
 	return &cobra.Command{
-		Use:     "list",
-		Short:   "List the built-in scoring profiles",
+		Use:   "list",
+		Short: "List the built-in scoring profiles",
+		Long: `List the built-in scoring profiles with their k of P(rank ≤ k), their number
+of criteria and what they favour. 'tidesift profile show NAME' prints one in
+full.`,
 		Example: `  tidesift profile list`,
 		Args:    usageArgs(cobra.NoArgs),
 		RunE: func(cmd *cobra.Command, args []string) error {

@@ -249,7 +249,6 @@ func rankSamples(mat []float32, N, S, workers int, seed uint64, ids []uint64) {
 			defer wg.Done()
 			tile := make([]float32, N*rankBlock)
 			col := make([]float32, N)
-			tie := make([]uint32, N)
 			rk := make([]float32, N)
 			var r stats.Ranker
 			for {
@@ -263,12 +262,11 @@ func rankSamples(mat []float32, N, S, workers int, seed uint64, ids []uint64) {
 					copy(tile[t*w:(t+1)*w], mat[t*S+j0:t*S+j0+w])
 				}
 				for c := range w {
-					j := uint64(j0 + c)
+					jmix := uint64(j0+c) * 0x9e3779b97f4a7c15
 					for t := range N {
 						col[t] = tile[t*w+c]
-						tie[t] = uint32(splitmix64(tieSeed^ids[t]^j*0x9e3779b97f4a7c15) >> 32)
 					}
-					r.RanksTies(col, tie, rk)
+					r.RanksTies(col, func(t int) uint32 { return uint32(splitmix64(tieSeed^ids[t]^jmix) >> 32) }, rk)
 					for t := range N {
 						tile[t*w+c] = rk[t]
 					}

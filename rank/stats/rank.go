@@ -1,13 +1,16 @@
 package stats
 
-import "math"
+import (
+	"math"
+	"slices"
+)
 
 // Ranker ranks float32 scores, highest first, reusing its buffers between
 // calls. Ties are broken by index, lower first, so the ranks of n scores are
 // always a permutation of 1…n. A Ranker is not safe for concurrent use.
 type Ranker struct {
-	keys, tmp []uint64
-	idx, itmp []uint32
+	keys, buf []uint64 // score keys and the radix sort's other buffer
+	tmp, aux  []uint64 // a run of tied keys and its radix buffer
 	count     [1 << 11]int32
 }
 
@@ -27,12 +30,20 @@ func orderKey(f float32) uint32 {
 // three 11-bit passes, stable, started from index order (Knuth, TAOCP vol. 3,
 // §5.2.5); passes whose digit is the same for every key are skipped.
 func (r *Ranker) Ranks(scores []float32, ranks []float32) {
+	for pos, k := range r.sortScores(scores) {
+		ranks[uint32(k)] = float32(pos + 1)
+	}
+}
+
+// sortScores returns the keys (descending score order key) << 32 | index,
+// sorted stably by score; the slice is r's and valid until the next call.
+func (r *Ranker) sortScores(scores []float32) []uint64 {
 	n := len(scores)
 	if cap(r.keys) < n {
 		r.keys = make([]uint64, n)
-		r.tmp = make([]uint64, n)
+		r.buf = make([]uint64, n)
 	}
-	keys, tmp := r.keys[:n], r.tmp[:n]
+	keys, tmp := r.keys[:n], r.buf[:n]
 	for i, s := range scores {
 		keys[i] = uint64(^orderKey(s))<<32 | uint64(i)
 	}
@@ -58,9 +69,7 @@ func (r *Ranker) Ranks(scores []float32, ranks []float32) {
 		}
 		keys, tmp = tmp, keys
 	}
-	for pos, k := range keys {
-		ranks[uint32(k)] = float32(pos + 1)
-	}
+	return keys
 }
 
 // RankStats summarises one target's ranks over samples (integers in 1…n):
@@ -105,33 +114,58 @@ func RankStats(ranks []float32, n, k int, counts []int32) (p05, p50, p95 float64
 	return
 }
 
-// RanksTies is Ranks with ties between equal scores broken by tie[i] (lower
+// RanksTies is Ranks with ties between equal scores broken by tie(i) (lower
 // first) instead of by index; equal (score, tie) pairs fall back to index
-// order. With tie values drawn at random, tied scores get their ranks in
-// random order, so no element gains from its position. It is an LSD radix
-// sort on the 64-bit key (descending score, tie), carrying the indices.
-func (r *Ranker) RanksTies(scores []float32, tie []uint32, ranks []float32) {
+// order. With random tie values, tied scores get their ranks in random order,
+// so no element gains from its position. The scores are radix-sorted as in
+// Ranks; then each run of equal scores is re-sorted by tie value, so tie is
+// called only for elements that are tied.
+func (r *Ranker) RanksTies(scores []float32, tie func(i int) uint32, ranks []float32) {
 	n := len(scores)
-	if cap(r.keys) < n {
-		r.keys, r.tmp = make([]uint64, n), make([]uint64, n)
+	keys := r.sortScores(scores)
+	if cap(r.tmp) < n {
+		r.tmp = make([]uint64, n)
 	}
-	if cap(r.idx) < n {
-		r.idx, r.itmp = make([]uint32, n), make([]uint32, n)
+	for a := 0; a < n; {
+		b := a + 1
+		for b < n && keys[b]>>32 == keys[a]>>32 {
+			b++
+		}
+		if b-a > 1 {
+			run := r.tmp[:b-a]
+			for j, k := range keys[a:b] {
+				i := uint32(k)
+				run[j] = uint64(tie(int(i)))<<32 | uint64(i)
+			}
+			if len(run) <= 64 {
+				slices.Sort(run)
+			} else {
+				r.radix32(run)
+			}
+			for j, k := range run {
+				keys[a+j] = keys[a+j]&^0xffffffff | k&0xffffffff
+			}
+		}
+		a = b
 	}
-	keys, tmp := r.keys[:n], r.tmp[:n]
-	idx, itmp := r.idx[:n], r.itmp[:n]
-	for i, s := range scores {
-		keys[i] = uint64(^orderKey(s))<<32 | uint64(tie[i])
-		idx[i] = uint32(i)
+	for pos, k := range keys {
+		ranks[uint32(k)] = float32(pos + 1)
 	}
-	for shift := uint(0); shift < 64; shift += 11 {
+}
+
+// radix32 sorts keys by their high 32 bits, stably, in three 11-bit passes.
+func (r *Ranker) radix32(keys []uint64) {
+	n := len(keys)
+	if cap(r.aux) < n {
+		r.aux = make([]uint64, n)
+	}
+	src, dst := keys, r.aux[:n]
+	passes := 0
+	for shift := uint(32); shift < 64; shift += 11 {
 		c := &r.count
 		clear(c[:])
-		for _, k := range keys {
+		for _, k := range src {
 			c[(k>>shift)&0x7ff]++
-		}
-		if int(c[(keys[0]>>shift)&0x7ff]) == n {
-			continue
 		}
 		var sum int32
 		for d := range c {
@@ -139,16 +173,15 @@ func (r *Ranker) RanksTies(scores []float32, tie []uint32, ranks []float32) {
 			c[d] = sum
 			sum += v
 		}
-		for i, k := range keys {
+		for _, k := range src {
 			d := (k >> shift) & 0x7ff
-			tmp[c[d]] = k
-			itmp[c[d]] = idx[i]
+			dst[c[d]] = k
 			c[d]++
 		}
-		keys, tmp = tmp, keys
-		idx, itmp = itmp, idx
+		src, dst = dst, src
+		passes++
 	}
-	for pos, i := range idx {
-		ranks[i] = float32(pos + 1)
+	if passes%2 == 1 {
+		copy(keys, src)
 	}
 }

@@ -181,18 +181,21 @@ func TestSummarizeSE(t *testing.T) {
 func TestRanksTies(t *testing.T) {
 	r := rand.New(rand.NewPCG(5, 7))
 	var rk Ranker
-	for _, n := range []int{1, 3, 1000, 3001} {
+	for _, n := range []int{1, 3, 70, 1000, 3001} {
 		scores := make([]float32, n)
 		tie := make([]uint32, n)
 		for i := range scores {
-			scores[i] = float32(r.IntN(5)) / 4 // many ties
+			scores[i] = float32(r.IntN(5)) / 4 // many ties, in runs short and long
+			if n == 70 {
+				scores[i] = float32(r.IntN(30)) // runs of about 2
+			}
 			tie[i] = r.Uint32()
 			if i%10 == 0 {
 				tie[i] = 7 // some equal tie values too: index order
 			}
 		}
 		ranks := make([]float32, n)
-		rk.RanksTies(scores, tie, ranks)
+		rk.RanksTies(scores, func(i int) uint32 { return tie[i] }, ranks)
 		idx := make([]int, n)
 		for i := range idx {
 			idx[i] = i

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -393,5 +394,43 @@ func TestDemoCSVRoundTrip(t *testing.T) {
 	again := writeFile(t, t.TempDir(), "again.csv", mustRun(t, ta, "list", "--format", "csv"))
 	if out := mustRun(t, ta, "import", again); !strings.Contains(out, "all 94 values are already in the catalog; no revision made") {
 		t.Errorf("re-importing the demo's canonical CSV: %q", out)
+	}
+}
+
+// TestXLSXImportMatchesCSV: a colleague's workbook, with a title block above
+// the header, imports to the same catalog as the canonical CSV.
+func TestXLSXImportMatchesCSV(t *testing.T) {
+	csvText := readFixture(t, "moons.csv")
+	rows, err := csv.NewReader(strings.NewReader(csvText)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	f := excelize.NewFile()
+	sheet := "Moons"
+	f.SetSheetName("Sheet1", sheet)
+	f.SetCellStr(sheet, "A1", "Invented moons for a tidesift test")
+	for i, r := range rows {
+		for j, c := range r {
+			cell, _ := excelize.CoordinatesToCellName(j+1, i+3)
+			if v, err := strconv.ParseFloat(c, 64); err == nil && i > 0 {
+				f.SetCellFloat(sheet, cell, v, -1, 64)
+			} else if c != "" {
+				f.SetCellStr(sheet, cell, c)
+			}
+		}
+	}
+	book := filepath.Join(dir, "moons.xlsx")
+	if err := f.SaveAs(book); err != nil {
+		t.Fatal(err)
+	}
+
+	fromCSV := newTestApp(t)
+	mustRun(t, fromCSV, "import", writeFile(t, dir, "moons.csv", csvText))
+	fromXLSX := newTestApp(t)
+	mustRun(t, fromXLSX, "import", book, "--sheet", sheet)
+	want := mustRun(t, fromCSV, "list", "--format", "json")
+	if got := mustRun(t, fromXLSX, "list", "--format", "json"); got != want {
+		t.Errorf("XLSX and CSV imports differ:\nxlsx %s\ncsv  %s", got, want)
 	}
 }

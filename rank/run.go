@@ -157,8 +157,9 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 
 	// Phase 1: sample every target; keep only its composite scores.
 	mat := make([]float32, N*S)
-	var next, done atomic.Int64
+	var next atomic.Int64
 	var mu sync.Mutex
+	done := 0
 	var wg sync.WaitGroup
 	for range workers {
 		wg.Add(1)
@@ -171,10 +172,10 @@ func Run(ctx context.Context, cat *schema.Catalog, prof *profile.Profile, opt Op
 					return
 				}
 				w.run(&ts[i], seed, mat[i*S:(i+1)*S])
-				d := int(done.Add(1))
 				if opt.Progress != nil {
-					mu.Lock()
-					opt.Progress(d, N)
+					mu.Lock() // serialises the calls and keeps done increasing
+					done++
+					opt.Progress(done, N)
 					mu.Unlock()
 				}
 			}

@@ -360,11 +360,7 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 	}
 	// A planet's or star's inputs are drawn once per worker for all samples
 	// and reused by its other moons (same stream, so the same values).
-	for s, sl := range p.slots {
-		if sl.shared {
-			w.view[s] = w.shared.column(sl, seed, S, w)
-		}
-	}
+	w.shared.columns(p, seed, S, w)
 	// Sensitivity classes from each uncertain input's own distribution.
 	uncertainSlots := w.uncertain[:0]
 	for s, sl := range p.slots {
@@ -518,27 +514,54 @@ type sharedEntry struct {
 	col    []float64
 }
 
-func (c *sharedCache) column(sl slot, seed uint64, S int, w *worker) []float64 {
-	for i := range c.entries {
-		e := &c.entries[i]
-		if e.col != nil && e.stream == sl.stream && e.key == sl.key && e.param.Value == sl.param.Value &&
-			e.param.Unc == sl.param.Unc && e.param.Status == sl.param.Status && e.param.Source == sl.param.Source {
-			return e.col
+func (e *sharedEntry) holds(sl *slot) bool {
+	return e.col != nil && e.stream == sl.stream && e.key == sl.key && e.param.Value == sl.param.Value &&
+		e.param.Unc == sl.param.Unc && e.param.Status == sl.param.Status && e.param.Source == sl.param.Source
+}
+
+// columns sets w.view for every shared slot of p: a cached column when one
+// holds that input, else a newly drawn one in an entry this target does not
+// use (so filling one of its columns never overwrites another).
+func (c *sharedCache) columns(p *plan, seed uint64, S int, w *worker) {
+	var pinned uint
+	for s := range p.slots {
+		sl := &p.slots[s]
+		w.view[s] = nil
+		if !sl.shared {
+			continue
+		}
+		for i := range c.entries {
+			if c.entries[i].holds(sl) {
+				w.view[s] = c.entries[i].col
+				pinned |= 1 << i
+				break
+			}
 		}
 	}
-	e := &c.entries[c.next]
-	c.next = (c.next + 1) % len(c.entries)
-	if cap(e.col) < S {
-		e.col = make([]float64, S)
+	for s := range p.slots {
+		sl := &p.slots[s]
+		if !sl.shared || w.view[s] != nil {
+			continue
+		}
+		for pinned&(1<<c.next) != 0 {
+			c.next = (c.next + 1) % len(c.entries)
+		}
+		i := c.next
+		c.next = (c.next + 1) % len(c.entries)
+		pinned |= 1 << i
+		e := &c.entries[i]
+		if cap(e.col) < S {
+			e.col = make([]float64, S)
+		}
+		e.col = e.col[:S]
+		e.key, e.stream, e.param = sl.key, sl.stream, sl.param
+		for ch := 0; ch*ChunkSize < S; ch++ {
+			g0 := ch * ChunkSize
+			w.src.Seed(streamSeed(seed, sl.stream, ch))
+			sl.dist.Fill(w.rng, e.col[g0:min(S, g0+ChunkSize)])
+		}
+		w.view[s] = e.col
 	}
-	e.col = e.col[:S]
-	e.key, e.stream, e.param = sl.key, sl.stream, sl.param
-	for ch := 0; ch*ChunkSize < S; ch++ {
-		g0 := ch * ChunkSize
-		w.src.Seed(streamSeed(seed, sl.stream, ch))
-		sl.dist.Fill(w.rng, e.col[g0:min(S, g0+ChunkSize)])
-	}
-	return e.col
 }
 
 // partition spans the 0.5 %–99.5 % quantiles of d with equal-width classes,

@@ -546,3 +546,25 @@ func TestNoPerSampleAllocations(t *testing.T) {
 		t.Errorf("allocations grow with samples: %v at %d, %v at %d", a, 2*ChunkSize, b, 16*ChunkSize)
 	}
 }
+
+// TestSharedCacheChurn: with many planets and stars the per-worker cache of
+// planet and star inputs is constantly replaced; every moon must still get
+// exactly the results it gets when ranked with its planet's moons alone.
+func TestSharedCacheChurn(t *testing.T) {
+	cat := synth.Catalog(240, 11) // 24 planets, 6 stars
+	prof := mustProfile(t, "tidal")
+	all := mustRun(t, cat, prof, Options{Samples: 300, Workers: 3})
+	byName := map[string]Target{}
+	for _, tg := range all.Targets {
+		byName[tg.Name] = tg
+	}
+	for _, pl := range cat.Planets {
+		part := mustRun(t, cat, prof, Options{Samples: 300, Workers: 1, Filter: Filter{Planets: []string{pl.Name}}})
+		for _, tg := range part.Targets {
+			a := byName[tg.Name]
+			if !reflect.DeepEqual(a.Metrics, tg.Metrics) || a.Score != tg.Score || !reflect.DeepEqual(a.Drivers, tg.Drivers) {
+				t.Fatalf("%s: results depend on the other moons ranked", tg.Name)
+			}
+		}
+	}
+}

@@ -328,3 +328,19 @@ func TestOpenPathWithURICharacters(t *testing.T) {
 		t.Errorf("reopened catalog has %d moons", len(c.Moons))
 	}
 }
+
+func TestReadOnlyOpenInReadOnlyDirectory(t *testing.T) {
+	dir := t.TempDir()
+	path := makeCatalog(t, dir)
+	protect(t, dir)
+	before := stateOf(t, path)
+	s, err := Open(context.Background(), path, Options{ReadOnly: true})
+	if err != nil {
+		t.Fatalf("read-only Open in a read-only directory: %v", err)
+	}
+	if c := mustSnapshot(t, s, 0); len(c.Moons) != 1 || c.Revision.ID != 1 {
+		t.Errorf("snapshot = %d moons at revision %d, want 1 at 1", len(c.Moons), c.Revision.ID)
+	}
+	s.Close()
+	assertUnchanged(t, path, before)
+}

@@ -116,17 +116,27 @@ func openFile(ctx context.Context, path string, opt Options) (*Store, error) {
 	if opt.ReadOnly && !exists {
 		return nil, fmt.Errorf("no such file%s (create a catalog with init or import first)", hint)
 	}
+	var extra []string
 	if exists {
 		// Look at the version through a read-only connection first: the
 		// writer's DSN switches the journal to WAL, which would touch a
 		// catalog we are about to refuse.
-		if err := probe(ctx, abs); err != nil {
+		err := probe(ctx, abs, nil)
+		if err != nil && opt.ReadOnly && hasCode(err, sqlite3.SQLITE_CANTOPEN) && !fileExists(abs+"-wal") {
+			// A WAL catalog needs a -shm file beside it, which a read-only
+			// directory refuses. With no -wal file there are no unmerged
+			// transactions, and no writer can start without creating one,
+			// so SQLite may treat the file as unchanging.
+			extra = []string{"immutable=1"}
+			err = probe(ctx, abs, extra)
+		}
+		if err != nil {
 			return nil, err
 		}
 	}
 	params := writerParams
 	if opt.ReadOnly {
-		params = readerParams
+		params = append(append([]string(nil), readerParams...), extra...)
 	}
 	db, err := sql.Open("sqlite", fileURI(abs, params))
 	if err != nil {
@@ -141,8 +151,8 @@ func openFile(ctx context.Context, path string, opt Options) (*Store, error) {
 }
 
 // probe refuses a file that is not a catalog this build can read.
-func probe(ctx context.Context, abs string) error {
-	db, err := sql.Open("sqlite", fileURI(abs, []string{"mode=ro", fmt.Sprintf("_pragma=busy_timeout(%d)", busyTimeoutMS)}))
+func probe(ctx context.Context, abs string, extra []string) error {
+	db, err := sql.Open("sqlite", fileURI(abs, append([]string{"mode=ro", fmt.Sprintf("_pragma=busy_timeout(%d)", busyTimeoutMS)}, extra...)))
 	if err != nil {
 		return err
 	}
@@ -201,7 +211,19 @@ func (s *Store) isReadOnly(ctx context.Context) (bool, error) {
 	return ro, err
 }
 
+func fileExists(path string) bool {
+	_, err := os.Stat(path)
+	return err == nil
+}
+
+// hasCode reports whether err carries the SQLite primary result code.
+func hasCode(err error, code int) bool {
+	var se *sqlite.Error
+	return errors.As(err, &se) && se.Code()&0xff == code
+}
+
 // describe turns SQLite's terse open-time errors into ones a user can act on.
+// The SQLite error stays in the chain.
 func describe(err error) error {
 	var se *sqlite.Error
 	if errors.Is(err, schema.ErrNewerSchema) || !errors.As(err, &se) {
@@ -209,17 +231,17 @@ func describe(err error) error {
 	}
 	switch se.Code() & 0xff {
 	case sqlite3.SQLITE_CANTOPEN:
-		return fmt.Errorf("cannot open the file or create its journal (%v)%s", err, hint)
+		return fmt.Errorf("cannot open the file or create its journal (%w)%s", err, hint)
 	case sqlite3.SQLITE_READONLY, sqlite3.SQLITE_PERM, sqlite3.SQLITE_AUTH:
-		return fmt.Errorf("cannot write (%v)%s", err, hint)
+		return fmt.Errorf("cannot write (%w)%s", err, hint)
 	case sqlite3.SQLITE_NOTADB:
-		return fmt.Errorf("not a tidesift catalog (%v)", err)
+		return fmt.Errorf("not a tidesift catalog (%w)", err)
 	case sqlite3.SQLITE_CORRUPT:
-		return fmt.Errorf("the catalog file is damaged (%v); restore it from a backup", err)
+		return fmt.Errorf("the catalog file is damaged (%w); restore it from a backup", err)
 	case sqlite3.SQLITE_FULL:
-		return fmt.Errorf("the disk is full (%v); free space and retry, the catalog is unchanged", err)
+		return fmt.Errorf("the disk is full (%w); free space and retry, the catalog is unchanged", err)
 	case sqlite3.SQLITE_IOERR:
-		return fmt.Errorf("input/output error (%v)%s", err, hint)
+		return fmt.Errorf("input/output error (%w)%s", err, hint)
 	}
 	return err
 }

@@ -28,8 +28,8 @@ uniform, log-normal or log-uniform; k2/Q is usually log-uniform over
 decades); it is marked "assumed" in every output with the prior's
 description, and is never written back to the catalog. Derived inputs: with no
 mass (or no radius) but a bulk density, the missing one follows from
-rho = 3m/(4 pi R^3) sample by sample; with no k2/Q but k2 and Q, k2/Q = k2/Q
-sample by sample. Catalog values always win over priors. A moon that lacks a
+rho = 3m/(4 pi R^3) sample by sample; with no k2/Q but k2 and Q, k2/Q is the
+ratio of the sampled k2 and Q. Catalog values always win over priors. A moon that lacks a
 required input with no prior for it is not ranked and is listed as excluded,
 with the missing keys.
 
@@ -50,7 +50,8 @@ Scores. In each sample the physical model is evaluated and every criterion
 maps its metric x to [0, 1]: ramp (0 at lo, 1 at hi, linear between, clamped;
 lo > hi scores low values higher), log ramp (the same on log10 x), or window
 (1 on [lo, hi], falling linearly to 0 over "soft" outside each edge). A metric
-the model cannot compute in a sample scores 0 there and is noted. Indicator
+the model cannot compute in a sample scores 0 there (each moon's notes say
+which reported metrics could not be computed in how many samples). Indicator
 metrics (ocean; retains:GAS) are 0 or 1 per sample, so their weight makes the
 mean score follow a probability. The composite score is sum(w_i T_i) /
 sum(w_i), in [0, 1], so each moon's score is a distribution.

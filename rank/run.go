@@ -325,6 +325,7 @@ var bufferedNames = [numBuffered]string{
 type worker struct {
 	S         int
 	prof      *profile.Profile
+	need      physics.Need // optional outputs the profile's criteria read
 	src       rand.PCG
 	rng       *rand.Rand
 	cols      [][]float64 // per slot, one chunk
@@ -342,7 +343,7 @@ type worker struct {
 }
 
 func newWorker(S int, prof *profile.Profile) *worker {
-	w := &worker{S: S, prof: prof, score: make([]float64, S), classes: sensitivity.ClassCount(S)}
+	w := &worker{S: S, prof: prof, need: prof.Needs(), score: make([]float64, S), classes: sensitivity.ClassCount(S)}
 	w.rng = rand.New(&w.src)
 	for m := range w.metric {
 		w.metric[m] = make([]float64, S)
@@ -396,7 +397,7 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 		for i := range n {
 			g := g0 + i
 			p.inputs(cols, i, &w.in)
-			physics.Evaluate(w.in, w.prof.Model, &w.d)
+			physics.EvaluateSome(&w.in, &w.prof.Model, &w.d, w.need)
 			d := &w.d
 			w.metric[mTidalPower][g] = d.TidalPower
 			w.metric[mRadiogenicPower][g] = d.RadiogenicPower

@@ -293,10 +293,64 @@ func fix(v *float64, inDomain bool) int {
 //     opt.MeltingTemperature, capped at WaterLayerThickness; OceanThickness,
 //     Ocean and OceanQualifies from OceanThickness.
 func Evaluate(in Inputs, opt Options, out *Derived) {
+	evaluateNeed(&in, &opt, out, NeedAll)
+}
+
+// Need selects the optional outputs of EvaluateSome. Every other field of
+// Derived is always computed.
+type Need uint8
+
+// Optional outputs of EvaluateSome.
+const (
+	// NeedJeans: JeansParameter (Retained is always computed).
+	NeedJeans Need = 1 << iota
+	// NeedRetentionTime: RetentionTime.
+	NeedRetentionTime
+	// NeedConductiveShell: ConductiveShellThickness in every case, not only
+	// where the ice shell needs it.
+	NeedConductiveShell
+
+	// NeedAll is what Evaluate computes.
+	NeedAll = NeedJeans | NeedRetentionTime | NeedConductiveShell
+)
+
+// EvaluateSome is Evaluate for a Monte Carlo loop: it reads *in and *opt
+// without copying them, may overwrite *in (out-of-domain inputs become NaN, as
+// in Evaluate), and computes the optional outputs only when need asks for
+// them; the fields it skips hold unspecified values. Every computed field is
+// bit for bit what Evaluate gives (one code path serves both).
+func EvaluateSome(in *Inputs, opt *Options, out *Derived, need Need) {
+	evaluateNeed(in, opt, out, need)
+}
+
+// suspect reports whether any input might be ±Inf or outside its domain: a
+// cheap test (NaN passes, as sanitize leaves it alone) that lets the common
+// all-valid case skip sanitize.
+func suspect(in *Inputs) bool {
+	inf := math.Inf(1)
+	return in.Mass <= 0 || in.Mass >= inf ||
+		in.Radius <= 0 || in.Radius >= inf ||
+		in.SemiMajorAxis <= 0 || in.SemiMajorAxis >= inf ||
+		in.Eccentricity < 0 || in.Eccentricity >= 1 ||
+		in.Obliquity >= inf || in.Obliquity <= -inf ||
+		in.Period <= 0 || in.Period >= inf ||
+		in.K2Q < 0 || in.K2Q >= inf ||
+		in.BondAlbedo < 0 || in.BondAlbedo > 1 ||
+		in.SurfaceTemperature <= 0 || in.SurfaceTemperature >= inf ||
+		in.MomentOfInertia <= 0 || in.MomentOfInertia > 2.0/3.0 ||
+		in.AtmosphereColumn < 0 || in.AtmosphereColumn >= inf ||
+		in.PlanetMass <= 0 || in.PlanetMass >= inf ||
+		in.StarDistance <= 0 || in.StarDistance >= inf ||
+		in.StarLuminosity < 0 || in.StarLuminosity >= inf ||
+		in.RockDensity <= 0 || in.RockDensity >= inf
+}
+
+func evaluateNeed(inp *Inputs, opt *Options, out *Derived, need Need) {
 	var fl Flag
-	if sanitize(&in) {
+	if suspect(inp) && sanitize(inp) {
 		fl |= FlagOutOfDomain
 	}
+	in := inp
 
 	// 1. Mean motion.
 	n := nan
@@ -387,12 +441,22 @@ func Evaluate(in Inputs, opt Options, out *Derived) {
 		tau0 = 2 * math.SqrtPi
 		v0Scale = math.Sqrt(2 * Boltzmann * Avogadro * ts)
 	}
+	if need&(NeedJeans|NeedRetentionTime) == 0 {
+		for j := range NumVolatiles {
+			lam := base * Volatiles[j].MolarMass
+			out.Retained[j] = lam > retentionLambda
+		}
+	}
 	for j := range NumVolatiles {
+		if need&(NeedJeans|NeedRetentionTime) == 0 {
+			break
+		}
 		mm := Volatiles[j].MolarMass
 		lam := base * mm
 		out.JeansParameter[j] = lam
 		out.Retained[j] = lam > retentionLambda
 		switch {
+		case need&NeedRetentionTime == 0:
 		case math.IsNaN(tau0):
 			out.RetentionTime[j] = nan
 		case column == 0:
@@ -417,7 +481,12 @@ func Evaluate(in Inputs, opt Options, out *Derived) {
 
 	// 10. Ice shell and ocean.
 	tm := opt.MeltingTemperature
-	d := ShellThickness(q, ts, tm)
+	// The shell's logarithm is needed only by the last two cases of the
+	// switch below, unless the caller wants ConductiveShellThickness itself.
+	d := nan
+	if need&NeedConductiveShell != 0 || (water == water && water != 0 && !(ts >= tm)) {
+		d = ShellThickness(q, ts, tm)
+	}
 	out.ConductiveShellThickness = d
 	out.Ocean, out.OceanQualifies = false, false
 	switch {

@@ -255,3 +255,16 @@ func ramp(x, lo, hi float64) float64 {
 	}
 	return t
 }
+
+// Needs returns the optional outputs of physics.EvaluateSome that the
+// criteria read (the Jeans parameters for "retains:" and "jeans:"), so that
+// the Monte Carlo engine computes nothing the score does not use.
+func (p *Profile) Needs() physics.Need {
+	var n physics.Need
+	for i := range p.Criteria {
+		if m := p.Criteria[i].metric; m == MetricRetains || m == MetricJeans {
+			n |= physics.NeedJeans
+		}
+	}
+	return n
+}

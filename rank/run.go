@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"math"
 	"math/bits"
-	"math/rand/v2"
 	"runtime"
 	"sort"
 	"strings"
@@ -325,12 +324,11 @@ var bufferedNames = [numBuffered]string{
 type worker struct {
 	S         int
 	prof      *profile.Profile
-	need      physics.Need // optional outputs the profile's criteria read
-	src       rand.PCG
-	rng       *rand.Rand
-	cols      [][]float64 // per slot, one chunk
-	view      [][]float64 // per slot, all samples of a shared (planet or star) input
-	chunkCols [][]float64 // per slot, this chunk's values
+	need      physics.Need      // optional outputs the profile's criteria read
+	src       *uncertain.Stream // math/rand/v2's PCG with inlined draws
+	cols      [][]float64       // per slot, one chunk
+	view      [][]float64       // per slot, all samples of a shared (planet or star) input
+	chunkCols [][]float64       // per slot, this chunk's values
 	shared    sharedCache
 	metric    [numBuffered][]float64
 	score     []float64
@@ -344,7 +342,7 @@ type worker struct {
 
 func newWorker(S int, prof *profile.Profile) *worker {
 	w := &worker{S: S, prof: prof, need: prof.Needs(), score: make([]float64, S), classes: sensitivity.ClassCount(S)}
-	w.rng = rand.New(&w.src)
+	w.src = uncertain.NewStream()
 	for m := range w.metric {
 		w.metric[m] = make([]float64, S)
 	}
@@ -383,7 +381,7 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 				continue
 			}
 			w.src.Seed(streamSeed(seed, sl.stream, c))
-			sl.dist.Fill(w.rng, w.cols[s][:n])
+			uncertain.FillFrom(sl.dist, w.src, w.cols[s][:n])
 		}
 		cols := w.chunkCols[:0]
 		for s, sl := range p.slots {
@@ -559,7 +557,7 @@ func (c *sharedCache) columns(p *plan, seed uint64, S int, w *worker) {
 		for ch := 0; ch*ChunkSize < S; ch++ {
 			g0 := ch * ChunkSize
 			w.src.Seed(streamSeed(seed, sl.stream, ch))
-			sl.dist.Fill(w.rng, e.col[g0:min(S, g0+ChunkSize)])
+			uncertain.FillFrom(sl.dist, w.src, e.col[g0:min(S, g0+ChunkSize)])
 		}
 		w.view[s] = e.col
 	}

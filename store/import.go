@@ -39,16 +39,21 @@ func (s *Store) Import(ctx context.Context, req ImportRequest) (*ImportResult, e
 	if s.readOnly {
 		return nil, fmt.Errorf("import %s: %w", req.File, ErrReadOnly)
 	}
-	sum := strings.ToLower(strings.TrimSpace(req.SHA256))
-	if sum != "" {
-		if b, err := hex.DecodeString(sum); err != nil || len(b) != 32 {
-			return nil, fmt.Errorf("import %s: SHA-256 %q is not 64 hexadecimal digits", req.File, req.SHA256)
-		}
+	sum, err := checkSum(req)
+	if err != nil {
+		return nil, err
 	}
 	var res *ImportResult
-	err := withRetry(ctx, func() error {
+	err = withRetry(ctx, func() error {
 		var err error
-		res, err = s.importTx(ctx, req, sum)
+		res, err = s.importTx(ctx, req, sum, func(apply func(*schema.Record, int) error) error {
+			for i := range req.Records {
+				if err := apply(&req.Records[i], i); err != nil {
+					return err
+				}
+			}
+			return nil
+		})
 		return err
 	})
 	if err != nil {
@@ -57,7 +62,21 @@ func (s *Store) Import(ctx context.Context, req ImportRequest) (*ImportResult, e
 	return res, nil
 }
 
-func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string) (res *ImportResult, err error) {
+// checkSum validates and normalises a request's SHA-256.
+func checkSum(req ImportRequest) (string, error) {
+	sum := strings.ToLower(strings.TrimSpace(req.SHA256))
+	if sum != "" {
+		if b, err := hex.DecodeString(sum); err != nil || len(b) != 32 {
+			return "", fmt.Errorf("import %s: SHA-256 %q is not 64 hexadecimal digits", req.File, req.SHA256)
+		}
+	}
+	return sum, nil
+}
+
+// importTx runs one import transaction; feed hands every record to apply,
+// in order, with its 0-based index.
+func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
+	feed func(apply func(rec *schema.Record, i int) error) error) (res *ImportResult, err error) {
 	tx, err := s.db.BeginTx(ctx, nil) // BEGIN IMMEDIATE (see writerParams)
 	if err != nil {
 		return nil, err
@@ -98,16 +117,18 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string) (re
 		return nil, err
 	}
 	im, err := newImporter(ctx, tx, revID, req.OmitChanges)
-	im.omitAdded = req.OmitAdded
 	if err != nil {
 		return nil, err
 	}
+	im.omitAdded = req.OmitAdded
 	defer im.close()
-	for i := range req.Records {
-		rec := &req.Records[i]
+	if err := feed(func(rec *schema.Record, i int) error {
 		if err := im.record(rec); err != nil {
-			return nil, fmt.Errorf("%s: %w", recordPlace(req.File, rec, i), err)
+			return fmt.Errorf("%s: %w", recordPlace(req.File, rec, i), err)
 		}
+		return nil
+	}); err != nil {
+		return nil, err
 	}
 	if err := im.flush(); err != nil {
 		return nil, err

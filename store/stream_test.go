@@ -1,0 +1,153 @@
+package store
+
+import (
+	"context"
+	"errors"
+	"strings"
+	"testing"
+
+	"tidesift/schema"
+)
+
+// Every body and value in these tests is invented.
+
+// sliceSource yields recs one by one through a reused Record, as
+// importers.ReadStream does, and fails with failAt after that many records
+// (never when failAt < 0).
+func sliceSource(recs []schema.Record, failAt int, failErr error) RecordSource {
+	return func(yield func(*schema.Record) error) error {
+		var r schema.Record
+		for i := range recs {
+			if i == failAt {
+				return failErr
+			}
+			r = recs[i]
+			if err := yield(&r); err != nil {
+				return err
+			}
+			r = schema.Record{Name: "reused record"} // a source may overwrite it
+		}
+		if failAt == len(recs) {
+			return failErr
+		}
+		return nil
+	}
+}
+
+func mustStream(tb testing.TB, s *Store, req ImportRequest, src RecordSource) *ImportResult {
+	tb.Helper()
+	res, err := s.ImportStream(context.Background(), req, src)
+	if err != nil {
+		tb.Fatalf("ImportStream(%s): %v", req.File, err)
+	}
+	return res
+}
+
+func TestImportStreamMatchesImport(t *testing.T) {
+	// More records than a few batches, so that batches are reused.
+	first := synthRecords(3*streamBatch+17, 40, 0)
+	second := synthRecords(3*streamBatch+17, 40, 1) // every value changes
+	a, b := memStore(t), memStore(t)
+	for i, recs := range [][]schema.Record{first, second} {
+		req := ImportRequest{File: "synthetic.csv", SHA256: sum(string(rune('a' + i)))}
+		ra := mustImport(t, a, ImportRequest{File: req.File, SHA256: req.SHA256, Records: recs})
+		rb := mustStream(t, b, req, sliceSource(recs, -1, nil))
+		if ra.Added != rb.Added || ra.Changed != rb.Changed || ra.Unchanged != rb.Unchanged ||
+			ra.NewBodies != rb.NewBodies || len(ra.Changes) != len(rb.Changes) {
+			t.Errorf("import %d: Import %+v, ImportStream %+v", i+1, counts(ra), counts(rb))
+		}
+		if ra.Revision == nil || rb.Revision == nil || ra.Revision.Changes != rb.Revision.Changes {
+			t.Fatalf("import %d: revisions %+v and %+v", i+1, ra.Revision, rb.Revision)
+		}
+	}
+	if ha, hb := mustSnapshot(t, a, 0).ContentHash, mustSnapshot(t, b, 0).ContentHash; ha != hb {
+		t.Errorf("streamed catalog differs from the imported one: %s vs %s", ha, hb)
+	}
+	if ha, hb := mustSnapshot(t, a, 1).ContentHash, mustSnapshot(t, b, 1).ContentHash; ha != hb {
+		t.Errorf("revision 1 differs: %s vs %s", ha, hb)
+	}
+}
+
+func counts(r *ImportResult) [5]int {
+	return [5]int{r.Added, r.Changed, r.Unchanged, r.NewBodies, len(r.Changes)}
+}
+
+func TestImportStreamSourceFailureWritesNothing(t *testing.T) {
+	recs := synthRecords(2*streamBatch+5, 10, 0)
+	bad := errors.New("row 9999: invented late problem")
+	for _, at := range []int{0, streamBatch + 3, len(recs)} { // before, amid and after the records
+		s := memStore(t)
+		mustImport(t, s, firstFile())
+		before := countRows(t, s, "value")
+		_, err := s.ImportStream(context.Background(), ImportRequest{File: "late.csv", SHA256: sum("late")}, sliceSource(recs, at, bad))
+		var se *SourceError
+		if !errors.Is(err, bad) || !errors.As(err, &se) {
+			t.Errorf("fail at %d: error %v, want the source's error as a *SourceError", at, err)
+		}
+		if n := countRows(t, s, "value"); n != before {
+			t.Errorf("fail at %d: %d value rows after a failed import, want %d", at, n, before)
+		}
+		if n := countRows(t, s, "revision"); n != 1 {
+			t.Errorf("fail at %d: %d revisions, want 1", at, n)
+		}
+	}
+}
+
+func TestImportStreamRecordErrorStopsSource(t *testing.T) {
+	s := memStore(t)
+	recs := synthRecords(20*streamBatch, 10, 0)
+	recs[streamBatch+1].Params = append(recs[streamBatch+1].Params, p("colour", 1))
+	yielded := 0
+	src := func(yield func(*schema.Record) error) error {
+		for i := range recs {
+			yielded++
+			if err := yield(&recs[i]); err != nil {
+				return err
+			}
+		}
+		return nil
+	}
+	_, err := s.ImportStream(context.Background(), ImportRequest{File: "synthetic.csv"}, src)
+	if !errors.Is(err, schema.ErrUnknownKey) || !strings.Contains(err.Error(), "row 514") {
+		t.Fatalf("error %v, want the unknown key at row 514", err)
+	}
+	// A few batches may be in flight, not the whole input.
+	if yielded >= len(recs) {
+		t.Errorf("the source produced all %d records after the writer failed", yielded)
+	}
+	if n := countRows(t, s, "value"); n != 0 {
+		t.Errorf("%d value rows after a failed import, want 0", n)
+	}
+}
+
+func TestImportStreamDuplicateFile(t *testing.T) {
+	s := memStore(t)
+	recs := synthRecords(10, 2, 0)
+	mustStream(t, s, ImportRequest{File: "a.csv", SHA256: sum("a")}, sliceSource(recs, -1, nil))
+	called := false
+	res := mustStream(t, s, ImportRequest{File: "copy.csv", SHA256: sum("a")}, func(func(*schema.Record) error) error {
+		called = true
+		return nil
+	})
+	if res.Duplicate == nil || res.Duplicate.ID != 1 || res.Revision != nil {
+		t.Errorf("second import of the same file: %+v, want Duplicate revision 1", res)
+	}
+	if called {
+		t.Error("the source was read for a duplicate file")
+	}
+}
+
+func TestImportStreamDryRunAndRejectsRecords(t *testing.T) {
+	s := memStore(t)
+	res := mustStream(t, s, ImportRequest{File: "a.csv", DryRun: true}, sliceSource(synthRecords(20, 2, 0), -1, nil))
+	if res.Revision == nil || res.Added == 0 {
+		t.Errorf("dry run result %+v, want a revision that would be made", res)
+	}
+	if n := countRows(t, s, "value"); n != 0 {
+		t.Errorf("dry run wrote %d values", n)
+	}
+	if _, err := s.ImportStream(context.Background(), ImportRequest{File: "b.csv", Records: synthRecords(1, 1, 0)},
+		sliceSource(nil, -1, nil)); err == nil {
+		t.Error("ImportStream accepted req.Records")
+	}
+}

@@ -2,6 +2,8 @@ package main
 
 import (
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -12,6 +14,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"tidesift/importers"
+	"tidesift/schema"
 	"tidesift/store"
 )
 
@@ -112,9 +115,12 @@ func runImport(ctx context.Context, opts *importOptions) error {
 		}
 		ropt.Map = m
 	}
-	results, err := readAll(opts.Files, ropt)
-	if err != nil {
-		return err
+	if len(opts.Files) > 1 {
+		// One bad file refuses the whole command: check every file before
+		// the first is written (a reading pass that keeps no records).
+		if err := checkAll(opts.Files, ropt); err != nil {
+			return err
+		}
 	}
 	db := opts.DB
 	if _, err := os.Stat(db); opts.DryRun && errors.Is(err, fs.ErrNotExist) {
@@ -127,20 +133,89 @@ func runImport(ctx context.Context, opts *importOptions) error {
 		return err
 	}
 	defer st.Close()
-	w := opts.app.Out
-	for _, res := range results {
-		if err := reportRejects(opts, res); err != nil {
+	for _, path := range opts.Files {
+		if err := importFile(ctx, opts, ropt, st, path); err != nil {
 			return err
 		}
-		out, err := st.Import(ctx, store.ImportRequest{
-			File: res.File, SHA256: res.SHA256, Note: opts.Note, Records: res.Records, DryRun: opts.DryRun,
-		})
-		if err != nil {
-			return fmt.Errorf("import %s: %w", res.File, err)
-		}
-		printImport(w, res, out, opts.DryRun)
 	}
 	return nil
+}
+
+// importFile streams one file into the catalog: records go to the store as
+// they are read, in one transaction, so memory stays flat in the file's size
+// and a problem anywhere in the file writes nothing.
+func importFile(ctx context.Context, opts *importOptions, ropt importers.Options, st *store.Store, path string) error {
+	sum, err := hashFile(path)
+	if err != nil {
+		return fmt.Errorf("import %s: %w", path, err)
+	}
+	var res *importers.Result
+	rows := 0
+	out, err := st.ImportStream(ctx, store.ImportRequest{File: path, SHA256: sum, Note: opts.Note, DryRun: opts.DryRun, OmitAdded: true},
+		func(yield func(*schema.Record) error) error {
+			res, rows = nil, 0
+			f, err := os.Open(path)
+			if err != nil {
+				return err
+			}
+			defer f.Close()
+			r, err := importers.ReadStream(path, f, ropt, func(rec *schema.Record) error {
+				rows++
+				return yield(rec)
+			})
+			if err != nil {
+				return err
+			}
+			if r.SHA256 != sum {
+				return fmt.Errorf("the file changed while it was being imported; import it again")
+			}
+			res = r
+			return nil
+		})
+	if err == nil && out.Duplicate != nil && opts.SkipInvalid {
+		// The store did not read the file; the rejects are still reported.
+		f, ferr := os.Open(path)
+		if ferr != nil {
+			return fmt.Errorf("import %s: %w", path, ferr)
+		}
+		res, err = importers.ReadStream(path, f, ropt, func(*schema.Record) error { return nil })
+		f.Close()
+	}
+	if err != nil {
+		var se *store.SourceError
+		if errors.As(err, &se) {
+			if isValidation(se.Err) {
+				return refusedError(fmt.Errorf("import refused, nothing was written:\n%s", se.Err.Error()))
+			}
+			return fmt.Errorf("import %s: %w", path, se.Err)
+		}
+		if isValidation(err) {
+			return refusedError(fmt.Errorf("import refused, nothing was written:\n%s", err.Error()))
+		}
+		return fmt.Errorf("import %s: %w", path, err)
+	}
+	if res == nil {
+		res = &importers.Result{File: path}
+	}
+	if err := reportRejects(opts, res); err != nil {
+		return err
+	}
+	printImportRows(opts.app.Out, res, rows, out, opts.DryRun)
+	return nil
+}
+
+// hashFile returns the hex SHA-256 of a file's bytes.
+func hashFile(path string) (string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return "", err
+	}
+	defer f.Close()
+	h := sha256.New()
+	if _, err := io.Copy(h, f); err != nil {
+		return "", err
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
 }
 
 // suggestMaps prints a starter column map for each file.
@@ -219,28 +294,30 @@ func writeRejectsFile(path string, res *importers.Result) error {
 	return f.Close()
 }
 
-// readAll reads and validates every file before anything is written, so one
+// checkAll reads and validates every file before anything is written, so one
 // bad file refuses the whole command. A file that cannot be opened is an
 // ordinary error; a file with invalid content is a refusal (exit status 3)
 // listing every problem found.
-func readAll(files []string, ropt importers.Options) ([]*importers.Result, error) {
-	var results []*importers.Result
+func checkAll(files []string, ropt importers.Options) error {
 	var problems []string
-	for _, f := range files {
-		res, err := importers.ReadFile(f, ropt)
+	for _, path := range files {
+		f, err := os.Open(path)
+		if err != nil {
+			return fmt.Errorf("import %s: %w", path, err)
+		}
+		_, err = importers.ReadStream(path, f, ropt, func(*schema.Record) error { return nil })
+		f.Close()
 		if err != nil {
 			if !isValidation(err) {
-				return nil, fmt.Errorf("import %s: %w", f, err)
+				return fmt.Errorf("import %s: %w", path, err)
 			}
 			problems = append(problems, err.Error())
-			continue
 		}
-		results = append(results, res)
 	}
 	if len(problems) > 0 {
-		return nil, refusedError(fmt.Errorf("import refused, nothing was written:\n%s", strings.Join(problems, "\n")))
+		return refusedError(fmt.Errorf("import refused, nothing was written:\n%s", strings.Join(problems, "\n")))
 	}
-	return results, nil
+	return nil
 }
 
 // isValidation reports whether err is about a file's content (a refusal)
@@ -252,6 +329,12 @@ func isValidation(err error) bool {
 }
 
 func printImport(w io.Writer, res *importers.Result, out *store.ImportResult, dryRun bool) {
+	printImportRows(w, res, len(res.Records), out, dryRun)
+}
+
+// printImportRows is printImport for a streamed file: rows is the number of
+// records imported.
+func printImportRows(w io.Writer, res *importers.Result, rows int, out *store.ImportResult, dryRun bool) {
 	switch {
 	case out.Duplicate != nil:
 		fmt.Fprintf(w, "%s: unchanged: already imported as revision %d\n", res.File, out.Duplicate.ID)
@@ -264,7 +347,7 @@ func printImport(w io.Writer, res *importers.Result, out *store.ImportResult, dr
 		return
 	default:
 		fmt.Fprintf(w, "%s: revision %d: %s; %s added, %d changed, %d unchanged; %d new bodies\n",
-			res.File, out.Revision.ID, plural(len(res.Records), "row"), plural(out.Added, "value"), out.Changed, out.Unchanged, out.NewBodies)
+			res.File, out.Revision.ID, plural(rows, "row"), plural(out.Added, "value"), out.Changed, out.Unchanged, out.NewBodies)
 	}
 	for _, c := range out.Changes {
 		if c.Old == nil || c.New == nil {

@@ -91,7 +91,17 @@ func (p *Profile) Score(d *physics.Derived) float64 {
 	var s, w float64
 	for i := range p.Criteria {
 		c := &p.Criteria[i]
-		s += c.Weight * c.Apply(c.Value(d))
+		x := c.Value(d)
+		var a float64
+		switch {
+		case c.kind == tRamp: // Apply's linear ramp, inlined (NaN gives 0)
+			a = ramp(x, c.Lo, c.Hi)
+		case c.kind == tLogRamp && c.Lo < c.Hi && !(x > c.Lo): // includes NaN
+			a = 0
+		default:
+			a = c.Apply(x)
+		}
+		s += c.Weight * a
 		w += c.Weight
 	}
 	return s / w

@@ -185,3 +185,38 @@ func TestAddAllMatchesAdd(t *testing.T) {
 		}
 	}
 }
+
+// TestAddAllSpecialValues: AddAll's hand-inlined loop gives exactly the classes
+// and sums of repeated Add calls, on linear and log partitions, including
+// values outside the partition, zero, negative, infinite and NaN.
+func TestAddAllSpecialValues(t *testing.T) {
+	r := rand.New(rand.NewPCG(2, 2))
+	xs, ys := make([]float64, 5000), make([]float64, 5000)
+	for i := range xs {
+		switch i % 10 {
+		case 0:
+			xs[i] = math.NaN()
+		case 1:
+			xs[i] = math.Inf(1 - 2*(i/10%2))
+		case 2:
+			xs[i] = -r.Float64()
+		case 3:
+			xs[i] = 0
+		default:
+			xs[i] = math.Exp(3 * r.NormFloat64())
+		}
+		ys[i] = r.NormFloat64()
+	}
+	for _, p := range []Partition{{M: 7, Lo: 0.1, Hi: 10}, {M: 7, Lo: 0.1, Hi: 10, Log: true}, {M: 1, Lo: 0, Hi: 1}} {
+		a, b := NewAccumulator(p), NewAccumulator(p)
+		a.AddAll(xs, ys)
+		for i := range xs {
+			b.Add(xs[i], ys[i])
+		}
+		for m := range a.Sum {
+			if a.Count[m] != b.Count[m] || math.Float64bits(a.Sum[m]) != math.Float64bits(b.Sum[m]) {
+				t.Fatalf("%+v class %d: AddAll %d, %v; Add %d, %v", p, m, a.Count[m], a.Sum[m], b.Count[m], b.Sum[m])
+			}
+		}
+	}
+}

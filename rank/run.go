@@ -392,19 +392,24 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			}
 		}
 		w.chunkCols = cols
+		// Chunk-local views, so the loop body indexes without reloading
+		// slice headers or re-checking bounds against S.
+		tp, rp, hf := w.metric[mTidalPower][g0:g0+n], w.metric[mRadiogenicPower][g0:g0+n], w.metric[mHeatFlux][g0:g0+n]
+		tf, st, ev := w.metric[mTidalForce][g0:g0+n], w.metric[mSurfaceTemperature][g0:g0+n], w.metric[mEscapeVelocity][g0:g0+n]
+		wl, is := w.metric[mWaterLayer][g0:g0+n], w.metric[mIceShell][g0:g0+n]
+		scs, rws := w.score[g0:g0+n], row[g0:g0+n]
+		in, d, model, prof, need := &w.in, &w.d, &w.prof.Model, w.prof, w.need
 		for i := range n {
-			g := g0 + i
-			p.inputs(cols, i, &w.in)
-			physics.EvaluateSome(&w.in, &w.prof.Model, &w.d, w.need)
-			d := &w.d
-			w.metric[mTidalPower][g] = d.TidalPower
-			w.metric[mRadiogenicPower][g] = d.RadiogenicPower
-			w.metric[mHeatFlux][g] = d.HeatFlux
-			w.metric[mTidalForce][g] = d.TidalForce
-			w.metric[mSurfaceTemperature][g] = d.SurfaceTemperature
-			w.metric[mEscapeVelocity][g] = d.EscapeVelocity
-			w.metric[mWaterLayer][g] = d.WaterLayerThickness
-			w.metric[mIceShell][g] = d.IceShellThickness
+			p.inputs(cols, i, in)
+			physics.EvaluateSome(in, model, d, need)
+			tp[i] = d.TidalPower
+			rp[i] = d.RadiogenicPower
+			hf[i] = d.HeatFlux
+			tf[i] = d.TidalForce
+			st[i] = d.SurfaceTemperature
+			ev[i] = d.EscapeVelocity
+			wl[i] = d.WaterLayerThickness
+			is[i] = d.IceShellThickness
 			ocean += b2i(d.OceanQualifies)
 			for v, r := range d.Retained {
 				retained[v] += b2i(r)
@@ -412,13 +417,13 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			for f := d.Flags; f != 0; f &= f - 1 {
 				flagCount[bits.TrailingZeros32(uint32(f))]++
 			}
-			sc := w.prof.Score(d)
+			sc := prof.Score(d)
 			if math.IsNaN(sc) {
 				sc = 0
 				scoreNaN++
 			}
-			w.score[g] = sc
-			row[g] = float32(sc)
+			scs[i] = sc
+			rws[i] = float32(sc)
 		}
 		for _, s := range uncertainSlots {
 			w.acc[s].AddAll(cols[s], w.score[g0:g0+n])

@@ -307,40 +307,47 @@ var roleBody, roleOrder = func() (b [numRoles]schema.Kind, o [numRoles]int) {
 	return
 }()
 
-// inputs assembles the physics inputs of sample i from slot-major columns.
-func (p *plan) inputs(cols [][]float64, i int, in *physics.Inputs) {
-	get := func(r role) float64 {
+// roleColumns points each role at its slot's column (cols[slot][:n]), or at
+// nan (n NaNs) when the plan has no slot for it.
+func (p *plan) roleColumns(cols [][]float64, nan []float64, n int, rc *[numRoles][]float64) {
+	for r := range rc {
 		if s := p.at[r]; s >= 0 {
-			return cols[s][i]
+			rc[r] = cols[s][:n]
+		} else {
+			rc[r] = nan[:n]
 		}
-		return math.NaN()
 	}
-	in.Mass = get(rMass)
-	in.Radius = get(rRadius)
+}
+
+// inputs assembles the physics inputs of sample i from the role columns of
+// roleColumns.
+func (p *plan) inputs(rc *[numRoles][]float64, i int, in *physics.Inputs) {
+	in.Mass = rc[rMass][i]
+	in.Radius = rc[rRadius][i]
 	switch {
 	case p.massFromDensity:
 		r := in.Radius
-		in.Mass = get(rDensity) * (4.0 / 3.0) * math.Pi * r * r * r
+		in.Mass = rc[rDensity][i] * (4.0 / 3.0) * math.Pi * r * r * r
 	case p.radiusFromDensity:
-		in.Radius = math.Cbrt(3 * in.Mass / (4 * math.Pi * get(rDensity)))
+		in.Radius = math.Cbrt(3 * in.Mass / (4 * math.Pi * rc[rDensity][i]))
 	}
-	in.SemiMajorAxis = get(rSemiMajorAxis)
-	in.Eccentricity = get(rEccentricity)
-	in.Obliquity = get(rObliquity)
-	in.Period = get(rPeriod)
+	in.SemiMajorAxis = rc[rSemiMajorAxis][i]
+	in.Eccentricity = rc[rEccentricity][i]
+	in.Obliquity = rc[rObliquity][i]
+	in.Period = rc[rPeriod][i]
 	if p.k2qFromRatio {
-		in.K2Q = physics.K2QFrom(get(rK2), get(rQ))
+		in.K2Q = physics.K2QFrom(rc[rK2][i], rc[rQ][i])
 	} else {
-		in.K2Q = get(rK2Q)
+		in.K2Q = rc[rK2Q][i]
 	}
-	in.BondAlbedo = get(rBondAlbedo)
-	in.SurfaceTemperature = get(rSurfaceTemperature)
-	in.MomentOfInertia = get(rMomentOfInertia)
-	in.AtmosphereColumn = get(rAtmosphereColumn)
-	in.PlanetMass = get(rPlanetMass)
-	in.StarDistance = get(rStarDistance)
-	in.StarLuminosity = get(rStarLuminosity)
-	in.RockDensity = get(rRockDensity)
+	in.BondAlbedo = rc[rBondAlbedo][i]
+	in.SurfaceTemperature = rc[rSurfaceTemperature][i]
+	in.MomentOfInertia = rc[rMomentOfInertia][i]
+	in.AtmosphereColumn = rc[rAtmosphereColumn][i]
+	in.PlanetMass = rc[rPlanetMass][i]
+	in.StarDistance = rc[rStarDistance][i]
+	in.StarLuminosity = rc[rStarLuminosity][i]
+	in.RockDensity = rc[rRockDensity][i]
 }
 
 // params lists every input used, in key order (for Target.Inputs and Central).
@@ -390,7 +397,9 @@ func Central(cat *schema.Catalog, moon *schema.Body, prof *profile.Profile) (*ph
 		cols[i] = []float64{v}
 	}
 	var in physics.Inputs
-	p.inputs(cols, 0, &in)
+	var rc [numRoles][]float64
+	p.roleColumns(cols, []float64{math.NaN()}, 1, &rc)
+	p.inputs(&rc, 0, &in)
 	d := new(physics.Derived)
 	physics.Evaluate(in, prof.Model, d)
 	return d, params, nil

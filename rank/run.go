@@ -329,6 +329,8 @@ type worker struct {
 	cols      [][]float64       // per slot, one chunk
 	view      [][]float64       // per slot, all samples of a shared (planet or star) input
 	chunkCols [][]float64       // per slot, this chunk's values
+	roleCols  [numRoles][]float64
+	nan       []float64 // ChunkSize NaNs: the column of an absent input
 	shared    sharedCache
 	metric    [numBuffered][]float64
 	score     []float64
@@ -343,6 +345,10 @@ type worker struct {
 func newWorker(S int, prof *profile.Profile) *worker {
 	w := &worker{S: S, prof: prof, need: prof.Needs(), score: make([]float64, S), classes: sensitivity.ClassCount(S)}
 	w.src = uncertain.NewStream()
+	w.nan = make([]float64, ChunkSize)
+	for i := range w.nan {
+		w.nan[i] = math.NaN()
+	}
 	for m := range w.metric {
 		w.metric[m] = make([]float64, S)
 	}
@@ -399,8 +405,10 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 		wl, is := w.metric[mWaterLayer][g0:g0+n], w.metric[mIceShell][g0:g0+n]
 		scs, rws := w.score[g0:g0+n], row[g0:g0+n]
 		in, d, model, prof, need := &w.in, &w.d, &w.prof.Model, w.prof, w.need
+		p.roleColumns(cols, w.nan, n, &w.roleCols)
+		rc := &w.roleCols
 		for i := range n {
-			p.inputs(cols, i, in)
+			p.inputs(rc, i, in)
 			physics.EvaluateSome(in, model, d, need)
 			tp[i] = d.TidalPower
 			rp[i] = d.RadiogenicPower

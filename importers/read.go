@@ -24,10 +24,48 @@ const maxColumns = 4096
 // what a comparison and a message need is kept: a file of many planets
 // holds one of these per planet and key.
 type bodyVal struct {
-	kidx  int // index in schema.Keys
-	row   int
+	kidx  uint16 // index in schema.Keys
+	kind  schema.UncKind
+	row   int32
 	value float64
-	unc   schema.Uncertainty
+	a, b  float64 // the uncertainty's fields (see packUnc): 32 bytes in all
+}
+
+// packUnc keeps the one or two fields an uncertainty of its kind has.
+func packUnc(u schema.Uncertainty) (a, b float64) {
+	switch u.Kind {
+	case schema.UncSymmetric:
+		return u.Sigma, 0
+	case schema.UncAsymmetric:
+		return u.Plus, u.Minus
+	case schema.UncRange:
+		return u.Min, u.Max
+	case schema.UncFactor:
+		return u.Factor, 0
+	}
+	return 0, 0
+}
+
+// unc is the inverse of packUnc.
+func (v *bodyVal) unc() schema.Uncertainty {
+	u := schema.Uncertainty{Kind: v.kind}
+	switch v.kind {
+	case schema.UncSymmetric:
+		u.Sigma = v.a
+	case schema.UncAsymmetric:
+		u.Plus, u.Minus = v.a, v.b
+	case schema.UncRange:
+		u.Min, u.Max = v.a, v.b
+	case schema.UncFactor:
+		u.Factor = v.a
+	}
+	return u
+}
+
+// same reports whether a value and uncertainty equal the stored ones.
+func (v *bodyVal) same(value float64, u schema.Uncertainty) bool {
+	a, b := packUnc(u)
+	return v.value == value && v.kind == u.Kind && v.a == a && v.b == b
 }
 
 // bodyState tracks one planet or star across the rows of a file, so that two
@@ -520,7 +558,7 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 			continue
 		}
 		old := st.val(rd.kidx[i])
-		if old == nil || (old.value == par.Value && old.unc == par.Unc) {
+		if old == nil || old.same(par.Value, par.Unc) {
 			continue
 		}
 		who := fmt.Sprintf("planet %q", rec.Planet)
@@ -530,7 +568,7 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 		ci := rd.colOf(par.Key)
 		rd.fail(row, ci, par.Key, cell(cells, ci),
 			fmt.Errorf("%w: %s has %s %s here but %s on row %d; expected the same value on every row (or give it once)",
-				ErrPlanetConflict, who, par.Key, rd.describe(par.Key, par.Value, par.Unc), rd.describe(par.Key, old.value, old.unc), old.row), "")
+				ErrPlanetConflict, who, par.Key, rd.describe(par.Key, par.Value, par.Unc), rd.describe(par.Key, old.value, old.unc()), old.row), "")
 	}
 }
 
@@ -558,14 +596,15 @@ func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
 			continue
 		}
 		if st.val(rd.kidx[i]) == nil {
-			st.vals = append(st.vals, bodyVal{kidx: rd.kidx[i], row: row, value: par.Value, unc: par.Unc})
+			a, b := packUnc(par.Unc)
+			st.vals = append(st.vals, bodyVal{kidx: uint16(rd.kidx[i]), kind: par.Unc.Kind, row: int32(min(row, math.MaxInt32)), value: par.Value, a: a, b: b})
 		}
 	}
 }
 
 func (st *bodyState) val(kidx int) *bodyVal {
 	for i := range st.vals {
-		if st.vals[i].kidx == kidx {
+		if int(st.vals[i].kidx) == kidx {
 			return &st.vals[i]
 		}
 	}
@@ -631,6 +670,7 @@ func (rd *reader) internName(s string) string {
 	if v, ok := rd.intern[s]; ok {
 		return v
 	}
+	rd.bound()
 	v := normName(s)
 	rd.intern[strings.Clone(s)] = v
 	return v
@@ -641,9 +681,21 @@ func (rd *reader) internText(s string) string {
 	if v, ok := rd.intern[s]; ok {
 		return v
 	}
+	rd.bound()
 	v := strings.Clone(s)
 	rd.intern[v] = v
 	return v
+}
+
+// maxInterned bounds the intern table: a file of a million planets would
+// otherwise keep every name twice. Sharing is an economy, not a promise, so
+// the table simply starts again.
+const maxInterned = 1 << 15
+
+func (rd *reader) bound() {
+	if len(rd.intern) >= maxInterned {
+		clear(rd.intern)
+	}
 }
 
 // normName is the stored form of a name: Unicode NFC, trimmed, runs of white

@@ -175,11 +175,27 @@ type bodyState struct {
 	kind   schema.Kind
 	name   string // display name
 	parent string // display name of the parent, "" for none
-	isNew  bool   // created by this import
+	isNew  bool   // created by this import, and cached since
 	// vals holds the current values of a star or planet, loaded on first
 	// use and kept up to date (their rows repeat on many records). Moons
 	// load theirs per record.
 	vals map[string]*curVal
+	// moons are the names and aliases (name keys) of the moons this import
+	// gave a planet it created: nothing in the database can match under
+	// it, so they are looked up here instead.
+	moons map[string]moonName
+}
+
+// hostCacheLimit bounds how many stars and planets an import keeps cached
+// with their values. Past it the cache is dropped and bodies are read back
+// from the transaction as they recur, so memory stays flat however many
+// planets a file names (rows of one planet usually come together).
+var hostCacheLimit = 4096 // a variable so that tests can make it tiny
+
+// hostKey names one value of a star or planet.
+type hostKey struct {
+	body int64
+	key  string
 }
 
 // curVal is a current value as this import sees it.
@@ -190,11 +206,15 @@ type curVal struct {
 	prevID  int64
 	change  int  // index in result.Changes, -1 if none or omitted
 	counted bool // counted as Unchanged, or set by this import (then not counted)
+	// prevUnknown: set by this import and read back after the cache was
+	// dropped; prev is looked up when needed.
+	prevUnknown bool
 }
 
 type moonName struct {
 	id   int64
 	name string
+	row  int // the row that named it
 }
 
 type childKey struct {
@@ -224,15 +244,22 @@ type importer struct {
 	planets    map[childKey]*bodyState
 	anyPlanet  map[string]*bodyState // planets looked up without a star
 	planetByID map[int64]*bodyState
-	moonsSeen  map[int64]int         // moon id → row that set it
-	newMoons   map[childKey]moonName // names and aliases of moons of planets this import created
+	moonsSeen  map[int64]int // moon id → row that set it
 	moonVals   map[string]*curVal
+	cached     int // stars and planets in the caches
+
+	// What must outlive a dropped cache: host values counted as
+	// unchanged, and the Changes index of host values set by this import.
+	countedHost map[hostKey]struct{}
+	hostChange  map[hostKey]int
+	prevValue   *sql.Stmt
 }
 
 func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*importer, error) {
 	im := &importer{ctx: ctx, tx: tx, rev: rev, omit: omit, dead: map[int]bool{},
 		stars: map[string]*bodyState{}, planets: map[childKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
-		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, newMoons: map[childKey]moonName{}, moonVals: map[string]*curVal{}}
+		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, moonVals: map[string]*curVal{},
+		countedHost: map[hostKey]struct{}{}, hostChange: map[hostKey]int{}}
 	prep := []struct {
 		dst **sql.Stmt
 		sql string
@@ -241,12 +268,13 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.findBody, "SELECT id, name FROM body WHERE kind = ? AND ifnull(parent_id, 0) = ? AND name_key = ?"},
 		{&im.findPlanets, `SELECT p.id, p.name, ifnull(p.parent_id, 0), ifnull(s.name, '') FROM body p
 			LEFT JOIN body s ON s.id = p.parent_id WHERE p.kind = 'planet' AND p.name_key = ? ORDER BY p.id`},
-		{&im.matchMoon, `SELECT id, name FROM body WHERE kind = 'moon' AND ifnull(parent_id, 0) = ?1 AND name_key = ?2
-			UNION SELECT b.id, b.name FROM alias a JOIN body b ON b.id = a.body_id
+		{&im.matchMoon, `SELECT id, name, created_rev FROM body WHERE kind = 'moon' AND ifnull(parent_id, 0) = ?1 AND name_key = ?2
+			UNION SELECT b.id, b.name, b.created_rev FROM alias a JOIN body b ON b.id = a.body_id
 			WHERE a.name_key = ?2 AND b.kind = 'moon' AND b.parent_id = ?1`},
 		{&im.insBody, "INSERT INTO body (kind, name, name_key, parent_id, created_rev) VALUES (?, ?, ?, ?, ?)"},
 		{&im.insAlias, "INSERT OR IGNORE INTO alias (body_id, name, name_key, rev) VALUES (?, ?, ?, ?)"},
 		{&im.curVals, "SELECT id, " + valueColumns + " FROM value WHERE body_id = ? AND superseded_rev IS NULL"},
+		{&im.prevValue, "SELECT id, " + valueColumns + " FROM value WHERE body_id = ? AND key = ? AND superseded_rev = ?"},
 		{&im.insValue, valueInsert + valueInsertRow},
 		{&im.insBatch, valueInsert + strings.TrimSuffix(strings.Repeat(valueInsertRow+", ", batchRows), ", ")},
 		{&im.supersede, "UPDATE value SET superseded_rev = ? WHERE id = ?"},
@@ -290,6 +318,13 @@ func (im *importer) result() *ImportResult {
 }
 
 func (im *importer) record(r *schema.Record) error {
+	if im.cached > hostCacheLimit {
+		clear(im.stars)
+		clear(im.planets)
+		clear(im.anyPlanet)
+		clear(im.planetByID)
+		im.cached = 0
+	}
 	if schema.NameKey(r.Name) == "" {
 		return errors.New("the moon has no name")
 	}
@@ -364,6 +399,7 @@ func (im *importer) star(name string) (*bodyState, error) {
 		return nil, err
 	}
 	im.stars[key] = b
+	im.cached++
 	return b, nil
 }
 
@@ -464,6 +500,7 @@ func (im *importer) intern(b *bodyState) *bodyState {
 		return have
 	}
 	im.planetByID[b.id] = b
+	im.cached++
 	return b
 }
 
@@ -473,6 +510,8 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 	type cand struct {
 		id   int64
 		name string
+		rev  int64 // the revision that created it
+		row  int   // for a moon of a planet this import created: the row that named it
 	}
 	var cands []cand
 	seen := func(id int64) bool {
@@ -496,7 +535,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			}
 			for rows.Next() {
 				var c cand
-				if err := rows.Scan(&c.id, &c.name); err != nil {
+				if err := rows.Scan(&c.id, &c.name, &c.rev); err != nil {
 					rows.Close()
 					return nil, err
 				}
@@ -518,8 +557,8 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 				continue
 			}
 			keys = append(keys, k)
-			if c, ok := im.newMoons[childKey{planet.id, k}]; ok && !seen(c.id) {
-				cands = append(cands, cand{c.id, c.name})
+			if c, ok := planet.moons[k]; ok && !seen(c.id) {
+				cands = append(cands, cand{c.id, c.name, im.rev, c.row})
 			}
 		}
 	}
@@ -530,8 +569,27 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		if m, err = im.create(schema.KindMoon, planet.id, planet.name, r.Name, keys[0]); err != nil {
 			return nil, err
 		}
+		if !planet.isNew {
+			im.moonsSeen[m.id] = r.Row
+		} // else planet.moons keeps its row
 	case 1:
-		m = &bodyState{id: cands[0].id, kind: schema.KindMoon, name: cands[0].name, parent: planet.name}
+		c := cands[0]
+		m = &bodyState{id: c.id, kind: schema.KindMoon, name: c.name, parent: planet.name}
+		// A moon this import created was named by an earlier record: the
+		// row is known from planet.moons or moonsSeen, unless the planet
+		// has left the cache since.
+		row, dup := im.moonsSeen[m.id]
+		if !dup && c.rev == im.rev {
+			row, dup = c.row, true
+		}
+		if dup {
+			first := "an earlier row"
+			if row > 0 {
+				first = fmt.Sprintf("row %d", row)
+			}
+			return nil, fmt.Errorf("moon %q of planet %q appears twice in one import (first at %s)", m.name, planet.name, first)
+		}
+		im.moonsSeen[m.id] = r.Row
 	default:
 		sort.Slice(cands, func(i, j int) bool { return cands[i].id < cands[j].id })
 		var list []string
@@ -541,13 +599,12 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		return nil, fmt.Errorf("%w: moon %q (names %s) matches several moons of planet %q: %s",
 			ErrAmbiguous, r.Name, quoteAll(names), planet.name, strings.Join(list, ", "))
 	}
-	if row, dup := im.moonsSeen[m.id]; dup {
-		return nil, fmt.Errorf("moon %q of planet %q appears twice in one import (first at row %d)", m.name, planet.name, row)
-	}
-	im.moonsSeen[m.id] = r.Row
 	mkey := schema.NameKey(m.name)
 	if planet.isNew {
-		im.newMoons[childKey{planet.id, mkey}] = moonName{m.id, m.name}
+		if planet.moons == nil {
+			planet.moons = map[string]moonName{}
+		}
+		planet.moons[mkey] = moonName{m.id, m.name, r.Row}
 	}
 	for _, n := range names {
 		k := schema.NameKey(n)
@@ -555,7 +612,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			continue
 		}
 		if planet.isNew {
-			im.newMoons[childKey{planet.id, k}] = moonName{m.id, m.name}
+			planet.moons[k] = moonName{m.id, m.name, r.Row}
 		}
 		res, err := im.insAlias.ExecContext(im.ctx, m.id, strings.Join(strings.Fields(n), " "), k, im.rev)
 		if err != nil {
@@ -597,9 +654,51 @@ func (im *importer) loadVals(b *bodyState) error {
 			return err
 		}
 		cv.p = p
+		if b.kind != schema.KindMoon {
+			hk := hostKey{b.id, p.Key}
+			if p.Revision == im.rev {
+				cv.counted, cv.prevUnknown = true, true
+				if i, ok := im.hostChange[hk]; ok {
+					cv.change = i
+				}
+			} else {
+				_, cv.counted = im.countedHost[hk]
+			}
+		}
 		b.vals[p.Key] = cv
 	}
 	return rows.Err()
+}
+
+// resolvePrev finds the value this import superseded for a host value read
+// back after a dropped cache.
+func (im *importer) resolvePrev(b *bodyState, cv *curVal) error {
+	cv.prevUnknown = false
+	rows, err := im.prevValue.QueryContext(im.ctx, b.id, cv.p.Key, im.rev)
+	if err != nil {
+		return err
+	}
+	defer rows.Close()
+	if !rows.Next() {
+		return rows.Err() // none: added by this import
+	}
+	var id int64
+	p, err := scanParam(rows, &id)
+	if err != nil {
+		return err
+	}
+	cv.prev, cv.prevID = &p, id
+	return rows.Close()
+}
+
+// setChange records the Changes index of a host value (-1: none).
+func (im *importer) setChange(b *bodyState, key string, i int) int {
+	if i >= 0 {
+		im.hostChange[hostKey{b.id, key}] = i
+	} else {
+		delete(im.hostChange, hostKey{b.id, key})
+	}
+	return i
 }
 
 // set applies one value to a body.
@@ -616,17 +715,23 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 	if b.kind == schema.KindMoon {
 		return im.setMoon(b, cv, p)
 	}
+	if cv != nil && cv.prevUnknown && !sameValue(cv.p, p) {
+		if err := im.resolvePrev(b, cv); err != nil {
+			return err
+		}
+	}
 	switch {
 	case cv == nil:
 		id, err := im.insert(b, p)
 		if err != nil {
 			return err
 		}
-		b.vals[p.Key] = &curVal{id: id, p: p, change: im.addChange(b, nil, p), counted: true}
+		b.vals[p.Key] = &curVal{id: id, p: p, change: im.setChange(b, p.Key, im.addChange(b, nil, p)), counted: true}
 		im.res.Added++
 	case sameValue(cv.p, p):
 		if !cv.counted {
 			cv.counted = true
+			im.countedHost[hostKey{b.id, p.Key}] = struct{}{}
 			im.res.Unchanged++
 		}
 	case cv.p.Revision != im.rev:
@@ -638,7 +743,7 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 			return err
 		}
 		old := cv.p
-		b.vals[p.Key] = &curVal{id: id, p: p, prev: &old, prevID: cv.id, change: im.addChange(b, &old, p), counted: true}
+		b.vals[p.Key] = &curVal{id: id, p: p, prev: &old, prevID: cv.id, change: im.setChange(b, p.Key, im.addChange(b, &old, p)), counted: true}
 		im.res.Changed++
 	case cv.prev != nil && sameValue(*cv.prev, p):
 		// A later row of this request put back the value it started with:
@@ -654,6 +759,8 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 		}
 		im.res.Changed--
 		im.res.Unchanged++
+		im.setChange(b, p.Key, -1)
+		im.countedHost[hostKey{b.id, p.Key}] = struct{}{}
 		b.vals[p.Key] = &curVal{id: cv.prevID, p: *cv.prev, change: -1, counted: true}
 	default:
 		// Set earlier in this request to something else: the last one wins.

@@ -9,6 +9,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"runtime/debug"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -115,6 +116,7 @@ func runImport(ctx context.Context, opts *importOptions) error {
 		}
 		ropt.Map = m
 	}
+	limitMemory()
 	if len(opts.Files) > 1 {
 		// One bad file refuses the whole command: check every file before
 		// the first is written (a reading pass that keeps no records).
@@ -202,6 +204,18 @@ func importFile(ctx context.Context, opts *importOptions, ropt importers.Options
 	}
 	printImportRows(opts.app.Out, res, rows, out, opts.DryRun)
 	return nil
+}
+
+// importMemory is the Go heap's soft limit during an import (unless
+// GOMEMLIMIT says otherwise): the collector then runs more often rather than
+// let garbage from a large file's rows double the heap. SQLite's page cache
+// comes on top.
+const importMemory = 160 << 20
+
+func limitMemory() {
+	if os.Getenv("GOMEMLIMIT") == "" {
+		debug.SetMemoryLimit(importMemory)
+	}
 }
 
 // hashFile returns the hex SHA-256 of a file's bytes.

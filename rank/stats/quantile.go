@@ -64,6 +64,7 @@ func Quantiles3(x []float64) Summary { return new(Summarizer).Summarize(x, false
 // and a selection (Floyd & Rivest 1975) among those few.
 type Summarizer struct {
 	scratch []float64
+	bins    []uint16 // each value's histogram bin, kept between the two passes
 	counts  [histBins + 1]int32
 	mark    [histBins + 1]int32
 }
@@ -153,8 +154,14 @@ func (z *Summarizer) orderStats(x []float64, lo, hi float64, want []int, val []f
 	nb := int(span>>shift) + 1
 	counts := z.counts[:nb]
 	clear(counts)
-	for _, v := range x {
-		counts[(fkey(v)-kmin)>>shift]++
+	if cap(z.bins) < len(x) {
+		z.bins = make([]uint16, len(x))
+	}
+	bins := z.bins[:len(x)]
+	for i, v := range x {
+		b := uint16((fkey(v) - kmin) >> shift)
+		bins[i] = b
+		counts[b]++
 	}
 	// Bin and rank within the bin of each wanted order statistic.
 	var bin, rank [8]int
@@ -193,8 +200,8 @@ func (z *Summarizer) orderStats(x []float64, lo, hi float64, want []int, val []f
 	g := z.scratch[:total]
 	var fill [8]int
 	copy(fill[:], start[:])
-	for _, v := range x {
-		if m := mark[(fkey(v)-kmin)>>shift]; m != 0 {
+	for i, v := range x {
+		if m := mark[bins[i]]; m != 0 {
 			g[fill[m-1]] = v
 			fill[m-1]++
 		}

@@ -222,7 +222,19 @@ type childKey struct {
 	key    string
 }
 
-const valueInsert = "INSERT INTO value (body_id, key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev) VALUES "
+const valueInsert = "INSERT INTO value (id, body_id, key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev) VALUES "
+
+const bodyInsert = "INSERT INTO body (id, kind, name, name_key, parent_id, created_rev) VALUES "
+
+// Arguments per queued row.
+const (
+	valueArgs = 14
+	bodyArgs  = 6
+)
+
+// maxPendingValues is how many value rows may wait for their bodies'
+// batch before they are written anyway (an import that creates no bodies).
+const maxPendingValues = 64 * batchRows
 
 type importer struct {
 	ctx       context.Context
@@ -236,9 +248,15 @@ type importer struct {
 	findBody, findPlanets, matchMoon, insBody, insAlias                 *sql.Stmt
 	curVals, insValue, insBatch, supersede, updValue, delValue, restore *sql.Stmt
 	supersedeBatch                                                      *sql.Stmt
-	pending                                                             []any   // queued moon value rows, 13 arguments each
-	superseded                                                          []int64 // queued ids of moon values to supersede
-	stmts                                                               []*sql.Stmt
+	pending                                                             []any   // queued value rows, valueArgs arguments each
+	superseded                                                          []int64 // queued ids of values to supersede
+	bodies                                                              []any   // queued body rows, bodyArgs arguments each
+	insBodyBatch                                                        *sql.Stmt
+	// Row ids are given here, not by SQLite, so that rows can be queued
+	// and written in batches: the transaction holds the write lock, so no
+	// one else takes an id meanwhile.
+	nextBody, nextValue int64
+	stmts               []*sql.Stmt
 
 	stars      map[string]*bodyState
 	planets    map[childKey]*bodyState
@@ -271,7 +289,8 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.matchMoon, `SELECT id, name, created_rev FROM body WHERE kind = 'moon' AND ifnull(parent_id, 0) = ?1 AND name_key = ?2
 			UNION SELECT b.id, b.name, b.created_rev FROM alias a JOIN body b ON b.id = a.body_id
 			WHERE a.name_key = ?2 AND b.kind = 'moon' AND b.parent_id = ?1`},
-		{&im.insBody, "INSERT INTO body (kind, name, name_key, parent_id, created_rev) VALUES (?, ?, ?, ?, ?)"},
+		{&im.insBody, bodyInsert + bodyInsertRow},
+		{&im.insBodyBatch, bodyInsert + strings.TrimSuffix(strings.Repeat(bodyInsertRow+", ", batchRows), ", ")},
 		{&im.insAlias, "INSERT OR IGNORE INTO alias (body_id, name, name_key, rev) VALUES (?, ?, ?, ?)"},
 		{&im.curVals, "SELECT id, " + valueColumns + " FROM value WHERE body_id = ? AND superseded_rev IS NULL"},
 		{&im.prevValue, "SELECT id, " + valueColumns + " FROM value WHERE body_id = ? AND key = ? AND superseded_rev = ?"},
@@ -292,6 +311,14 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		}
 		*p.dst = st
 		im.stmts = append(im.stmts, st)
+	}
+	if err := tx.QueryRowContext(ctx, "SELECT ifnull(max(id), 0) + 1 FROM body").Scan(&im.nextBody); err != nil {
+		im.close()
+		return nil, err
+	}
+	if err := tx.QueryRowContext(ctx, "SELECT ifnull(max(id), 0) + 1 FROM value").Scan(&im.nextValue); err != nil {
+		im.close()
+		return nil, err
 	}
 	return im, nil
 }
@@ -319,6 +346,10 @@ func (im *importer) result() *ImportResult {
 
 func (im *importer) record(r *schema.Record) error {
 	if im.cached > hostCacheLimit {
+		// Bodies read back from now on must be in the database.
+		if err := im.flushBodies(); err != nil {
+			return err
+		}
 		clear(im.stars)
 		clear(im.planets)
 		clear(im.anyPlanet)
@@ -404,6 +435,9 @@ func (im *importer) star(name string) (*bodyState, error) {
 }
 
 func (im *importer) findOrCreate(kind schema.Kind, parentID int64, parentName, name, key string) (*bodyState, error) {
+	// No flush first: a queued star or planet was created since the cache
+	// was last dropped (record writes the queue then), so it is cached and
+	// never looked up here.
 	b := &bodyState{kind: kind, parent: parentName}
 	err := im.findBody.QueryRowContext(im.ctx, string(kind), parentID, key).Scan(&b.id, &b.name)
 	if err == nil {
@@ -421,13 +455,17 @@ func (im *importer) create(kind schema.Kind, parentID int64, parentName, name, k
 		parent = parentID
 	}
 	display := strings.Join(strings.Fields(name), " ")
-	r, err := im.insBody.ExecContext(im.ctx, string(kind), display, key, parent, im.rev)
-	if err != nil {
-		return nil, fmt.Errorf("create %s %q: %w", kind, display, err)
-	}
-	id, err := r.LastInsertId()
-	if err != nil {
-		return nil, err
+	id := im.nextBody
+	im.nextBody++
+	im.bodies = append(im.bodies, id, string(kind), display, key, parent, im.rev)
+	if len(im.bodies) == batchRows*bodyArgs {
+		// A full batch of bodies: write it, then the values waiting for it.
+		if err := im.flushBodies(); err != nil {
+			return nil, err
+		}
+		if err := im.flushValues(false); err != nil {
+			return nil, err
+		}
 	}
 	im.res.NewBodies++
 	return &bodyState{id: id, kind: kind, name: display, parent: parentName, isNew: true}, nil
@@ -450,6 +488,9 @@ func (im *importer) planet(name string, star *bodyState) (*bodyState, error) {
 	}
 	if b := im.anyPlanet[key]; b != nil {
 		return b, nil
+	}
+	if err := im.flushBodies(); err != nil {
+		return nil, err
 	}
 	rows, err := im.findPlanets.QueryContext(im.ctx, key)
 	if err != nil {
@@ -523,6 +564,9 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		return false
 	}
 	if !planet.isNew {
+		if err := im.flushBodies(); err != nil {
+			return nil, err
+		}
 		for _, n := range names {
 			k := schema.NameKey(n)
 			if k == "" {
@@ -614,6 +658,9 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		if planet.isNew {
 			planet.moons[k] = moonName{m.id, m.name, r.Row}
 		}
+		if err := im.flushBodies(); err != nil {
+			return nil, err
+		}
 		res, err := im.insAlias.ExecContext(im.ctx, m.id, strings.Join(strings.Fields(n), " "), k, im.rev)
 		if err != nil {
 			return nil, fmt.Errorf("record alias %q: %w", n, err)
@@ -642,6 +689,14 @@ func quoteAll(ss []string) string {
 }
 
 func (im *importer) loadVals(b *bodyState) error {
+	if b.kind != schema.KindMoon {
+		// A star or planet read back after a dropped cache may have
+		// queued values. (A moon's cannot: a moon named twice in one
+		// import is refused before its values are read.)
+		if err := im.flushAll(); err != nil {
+			return err
+		}
+	}
 	rows, err := im.curVals.QueryContext(im.ctx, b.id)
 	if err != nil {
 		return err
@@ -674,6 +729,9 @@ func (im *importer) loadVals(b *bodyState) error {
 // back after a dropped cache.
 func (im *importer) resolvePrev(b *bodyState, cv *curVal) error {
 	cv.prevUnknown = false
+	if err := im.flushAll(); err != nil {
+		return err
+	}
 	rows, err := im.prevValue.QueryContext(im.ctx, b.id, cv.p.Key, im.rev)
 	if err != nil {
 		return err
@@ -735,9 +793,7 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 			im.res.Unchanged++
 		}
 	case cv.p.Revision != im.rev:
-		if _, err := im.supersede.ExecContext(im.ctx, im.rev, cv.id); err != nil {
-			return err
-		}
+		im.superseded = append(im.superseded, cv.id) // before the new row is written: see flushValues
 		id, err := im.insert(b, p)
 		if err != nil {
 			return err
@@ -748,6 +804,9 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 	case cv.prev != nil && sameValue(*cv.prev, p):
 		// A later row of this request put back the value it started with:
 		// undo the change instead of recording a no-op.
+		if err := im.flushAll(); err != nil {
+			return err
+		}
 		if _, err := im.delValue.ExecContext(im.ctx, cv.id); err != nil {
 			return err
 		}
@@ -764,6 +823,9 @@ func (im *importer) set(b *bodyState, p schema.Param) error {
 		b.vals[p.Key] = &curVal{id: cv.prevID, p: *cv.prev, change: -1, counted: true}
 	default:
 		// Set earlier in this request to something else: the last one wins.
+		if err := im.flushAll(); err != nil {
+			return err
+		}
 		u := uncArgs(p.Unc)
 		if _, err := im.updValue.ExecContext(im.ctx, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
 			p.Source, string(p.Status), cv.id); err != nil {
@@ -795,7 +857,8 @@ func (im *importer) setMoon(b *bodyState, cv *curVal, p schema.Param) error {
 		im.addChange(b, &old, p)
 		im.res.Changed++
 	}
-	return im.queue(b, p)
+	_, err := im.queue(b, p)
+	return err
 }
 
 // batchRows is how many value rows one multi-row INSERT carries: fewer
@@ -803,29 +866,75 @@ func (im *importer) setMoon(b *bodyState, cv *curVal, p schema.Param) error {
 // with this driver).
 const batchRows = 32
 
-const valueInsertRow = "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
+const valueInsertRow = "(?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
 
-func (im *importer) queue(b *bodyState, p schema.Param) error {
+const bodyInsertRow = "(?, ?, ?, ?, ?, ?)"
+
+// queue adds a value row to the pending batch and returns its id.
+func (im *importer) queue(b *bodyState, p schema.Param) (int64, error) {
 	u := uncArgs(p.Unc)
-	im.pending = append(im.pending, b.id, p.Key, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
+	id := im.nextValue
+	im.nextValue++
+	im.pending = append(im.pending, id, b.id, p.Key, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
 		p.Source, string(p.Status), im.rev)
-	if len(im.pending) < batchRows*13 {
-		return nil
+	if len(im.pending) < maxPendingValues*valueArgs {
+		return id, nil
 	}
+	if err := im.flushBodies(); err != nil {
+		return 0, err
+	}
+	return id, im.flushValues(false)
+}
+
+// flushBodies writes the queued bodies: the values, aliases and children
+// that refer to them, and the queries that look for them, need them first.
+func (im *importer) flushBodies() error {
+	rows := im.bodies
+	for len(rows) >= batchRows*bodyArgs {
+		if _, err := im.insBodyBatch.ExecContext(im.ctx, rows[:batchRows*bodyArgs]...); err != nil {
+			return fmt.Errorf("store bodies: %w", err)
+		}
+		rows = rows[batchRows*bodyArgs:]
+	}
+	for ; len(rows) > 0; rows = rows[bodyArgs:] {
+		if _, err := im.insBody.ExecContext(im.ctx, rows[:bodyArgs]...); err != nil {
+			return fmt.Errorf("create %s %q: %w", rows[1], rows[2], err)
+		}
+	}
+	clear(im.bodies)
+	im.bodies = im.bodies[:0]
+	return nil
+}
+
+// flushValues writes the queued value rows in full batches, and with all the
+// rest too. Their bodies must have been written.
+func (im *importer) flushValues(all bool) error {
 	// The rows these replace must leave the current set first, or the new
 	// ones would collide with them in the value_key index.
 	if err := im.flushSuperseded(); err != nil {
 		return err
 	}
-	_, err := im.insBatch.ExecContext(im.ctx, im.pending...)
-	im.pending = im.pending[:0]
-	if err != nil {
-		return fmt.Errorf("store values: %w", err)
+	rows := im.pending
+	for len(rows) >= batchRows*valueArgs {
+		if _, err := im.insBatch.ExecContext(im.ctx, rows[:batchRows*valueArgs]...); err != nil {
+			return fmt.Errorf("store values: %w", err)
+		}
+		rows = rows[batchRows*valueArgs:]
 	}
+	if all {
+		for ; len(rows) > 0; rows = rows[valueArgs:] {
+			if _, err := im.insValue.ExecContext(im.ctx, rows[:valueArgs]...); err != nil {
+				return fmt.Errorf("store values: %w", err)
+			}
+		}
+	}
+	n := copy(im.pending, rows)
+	clear(im.pending[n:])
+	im.pending = im.pending[:n]
 	return nil
 }
 
-// flushSuperseded marks the queued moon values superseded, batchRows at a time.
+// flushSuperseded marks the queued values superseded, batchRows at a time.
 func (im *importer) flushSuperseded() error {
 	ids := im.superseded
 	for len(ids) >= batchRows {
@@ -848,28 +957,21 @@ func (im *importer) flushSuperseded() error {
 	return nil
 }
 
-// flush writes the queued rows that did not fill a batch.
-func (im *importer) flush() error {
-	if err := im.flushSuperseded(); err != nil {
+// flushAll writes everything queued: before a statement that reads or
+// changes values by id.
+func (im *importer) flushAll() error {
+	if err := im.flushBodies(); err != nil {
 		return err
 	}
-	for i := 0; i < len(im.pending); i += 13 {
-		if _, err := im.insValue.ExecContext(im.ctx, im.pending[i:i+13]...); err != nil {
-			return fmt.Errorf("store values: %w", err)
-		}
-	}
-	im.pending = im.pending[:0]
-	return nil
+	return im.flushValues(true)
 }
 
+// flush writes what is left at the end.
+func (im *importer) flush() error { return im.flushAll() }
+
+// insert queues a star's or planet's value and returns its row id.
 func (im *importer) insert(b *bodyState, p schema.Param) (int64, error) {
-	u := uncArgs(p.Unc)
-	r, err := im.insValue.ExecContext(im.ctx, b.id, p.Key, p.Value, p.Unc.Kind.String(), u[0], u[1], u[2], u[3], u[4], u[5],
-		p.Source, string(p.Status), im.rev)
-	if err != nil {
-		return 0, err
-	}
-	return r.LastInsertId()
+	return im.queue(b, p)
 }
 
 func (im *importer) addChange(b *bodyState, old *schema.Param, p schema.Param) int {

@@ -8,6 +8,8 @@ import (
 	"runtime/metrics"
 	"testing"
 	"time"
+
+	"tidesift/schema"
 )
 
 // BenchmarkImport imports about 100,000 invented values (11,112 moons of 10
@@ -183,4 +185,73 @@ func BenchmarkSnapshot(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkImportStream streams invented moons (each with its own planet
+// values, ten moons to a planet, every planet its own star) into an empty
+// file catalog through ImportStream, at two sizes, and reports the peak live
+// heap: it should not grow with the number of moons.
+//
+//	go test ./store -run '^$' -bench BenchmarkImportStream -benchtime 1x
+func BenchmarkImportStream(b *testing.B) {
+	ctx := context.Background()
+	for _, n := range []int{20000, 100000} {
+		b.Run(fmt.Sprintf("moons=%d", n), func(b *testing.B) {
+			var peak uint64
+			for b.Loop() {
+				b.StopTimer()
+				s, err := Open(ctx, filepath.Join(b.TempDir(), "stream.db"), Options{})
+				if err != nil {
+					b.Fatal(err)
+				}
+				runtime.GC()
+				stop, done := make(chan struct{}), make(chan uint64)
+				go func() {
+					var max uint64
+					t := time.NewTicker(10 * time.Millisecond)
+					defer t.Stop()
+					for {
+						select {
+						case <-stop:
+							done <- max
+							return
+						case <-t.C:
+							max = maxU(max, heapInUse())
+						}
+					}
+				}()
+				b.StartTimer()
+				_, err = s.ImportStream(ctx, ImportRequest{File: "stream", OmitAdded: true}, func(yield func(*schema.Record) error) error {
+					for i := range n {
+						pl := i / 10
+						r := schema.Record{Row: i + 1, Name: fmt.Sprintf("Stream Moon %d", i), Planet: fmt.Sprintf("Stream Giant %d", pl),
+							Star: fmt.Sprintf("Stream Star %d", pl), Source: "invented benchmark row",
+							Params: []schema.Param{pSym("mass", 1e20*float64(i+1), 1e18), p("radius", 1e5), p("semi_major_axis", 1e8),
+								p("eccentricity", 0.01), p("period", 1e5), p("planet_mass", 1e27*float64(pl+1)), p("star_mass", 2e30)}}
+						if err := yield(&r); err != nil {
+							return err
+						}
+					}
+					return nil
+				})
+				if err != nil {
+					b.Fatal(err)
+				}
+				b.StopTimer()
+				close(stop)
+				peak = maxU(peak, <-done)
+				s.Close()
+				b.StartTimer()
+			}
+			b.ReportMetric(float64(n)*float64(b.N)/b.Elapsed().Seconds(), "moons/s")
+			b.ReportMetric(float64(peak)/(1<<20), "peak-heap-MiB")
+		})
+	}
+}
+
+func maxU(a, b uint64) uint64 {
+	if a > b {
+		return a
+	}
+	return b
 }

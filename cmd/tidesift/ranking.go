@@ -105,7 +105,7 @@ func topOf(r *rank.Result, n int) *rank.Result {
 // uncertainty propagation and ranking statistics (rank), as one text for the
 // methods command and the workbook's Method sheet.
 func methodsText() string {
-	return method.Text() + "\n\n" + rank.MethodText()
+	return method.WithUncertainty(rank.MethodText())
 }
 
 // version is the tidesift version recorded in workbooks: the module version

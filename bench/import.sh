@@ -16,27 +16,6 @@ cd "$(dirname "$0")/.."
 . bench/lib.sh
 ensure_tools sqlite3
 
-# timed_cpu is lib.sh's timed that also sets CPU (user + system seconds).
-timed_cpu() {
-	local label=$1
-	shift
-	local report
-	report="$(mktemp)"
-	if ! /usr/bin/time -v "$@" >/dev/null 2>"$report"; then
-		echo "$label failed:" >&2
-		cat "$report" >&2
-		rm -f "$report"
-		return 1
-	fi
-	WALL="$(awk -F': ' '/Elapsed \(wall clock\)/ {
-		n = split($2, p, ":"); s = 0
-		for (i = 1; i <= n; i++) s = s * 60 + p[i]
-		printf "%.2f", s }' "$report")"
-	RSS="$(awk -F': ' '/Maximum resident set size/ { printf "%.0f", $2 / 1024 }' "$report")"
-	CPU="$(awk -F': ' '/User time|System time/ { s += $2 } END { printf "%.2f", s }' "$report")"
-	rm -f "$report"
-}
-
 out=bench/out
 mkdir -p "$out"
 go build -o "$out/tidesift" ./cmd/tidesift
@@ -48,12 +27,12 @@ for n in ${SIZES:-100000 1000000}; do
 	[ -s "$csv" ] || "$out/gencsv" -n "$n" -o "$csv"
 
 	rm -f "$out/import-$n.db" "$out/import-$n.db-wal" "$out/import-$n.db-shm"
-	timed_cpu "tidesift import" env TIDESIFT_DB="$out/import-$n.db" "$out/tidesift" import "$csv"
+	timed "tidesift import" env TIDESIFT_DB="$out/import-$n.db" "$out/tidesift" import "$csv"
 	ours=$WALL
 	printf '%-9s %-22s %9s %9s %9s\n' "$n" "tidesift import" "$WALL" "$RSS" "$CPU"
 
 	rm -f "$out/sqlite-$n.db"
-	timed_cpu "sqlite3 .import" sqlite3 "$out/sqlite-$n.db" ".import --csv $csv moons"
+	timed "sqlite3 .import" sqlite3 "$out/sqlite-$n.db" ".import --csv $csv moons"
 	printf '%-9s %-22s %9s %9s %9s\n' "$n" "sqlite3 .import" "$WALL" "$RSS" "$CPU"
 	awk -v a="$ours" -v b="$WALL" 'BEGIN { if (b > 0) printf "%-9s %-22s %9.2f\n", "", "ratio (ours/shell)", a / b }'
 done

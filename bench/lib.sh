@@ -17,7 +17,7 @@ ensure_tools() {
 }
 
 # timed LABEL CMD... runs CMD under /usr/bin/time -v, its stdout discarded,
-# and sets WALL (seconds) and RSS (MiB) from the report.
+# and sets WALL (seconds), RSS (MiB) and CPU (user + system seconds) from the report.
 timed() {
 	local label=$1
 	shift
@@ -34,5 +34,6 @@ timed() {
 		for (i = 1; i <= n; i++) s = s * 60 + p[i]
 		printf "%.2f", s }' "$report")"
 	RSS="$(awk -F': ' '/Maximum resident set size/ { printf "%.0f", $2 / 1024 }' "$report")"
+	CPU="$(awk -F': ' '/User time|System time/ { s += $2 } END { printf "%.2f", s }' "$report")"
 	rm -f "$report"
 }

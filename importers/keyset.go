@@ -1,62 +1,75 @@
 package importers
 
 import (
-	"bytes"
+	"encoding/binary"
 	"hash/maphash"
 	"math"
 )
 
-// keySet remembers byte-string keys with the row that first gave each. It is
-// a map from a 64-bit hash to an entry whose key bytes live in one growing
-// arena, so adding a key costs no allocation of its own; a hash match is
-// confirmed against the stored bytes, and a collision probes the next hash,
-// so the set is exact. Several small index maps may share one arena (addIn):
-// the duplicate check keeps one per planet, which stays in cache while a
-// planet's rows go by.
+// keySet remembers byte-string keys (a moon's planet and name, see moonKey)
+// with the row that first gave each. It keeps no key bytes: an entry is a
+// 64-bit hash of the key, the map key, and a second, independent 32-bit hash
+// beside the row, 16 bytes a slot in all, the size the map's alignment gives
+// a uint64 key with an int32 value anyway. A million moons cost about
+// 30 bytes each (the map's load factor included) instead of the 66 an exact
+// set of the key bytes with one index per planet needed.
+//
+// The price is that two different keys whose 64-bit and 32-bit hashes both
+// agree would be taken for a duplicate. With n keys in a file the chance
+// that any such pair exists is about n²/2⁹⁷ (birthday bound over 96 bits):
+// 6·10⁻¹⁸ for a million moons, 6·10⁻¹⁴ for a hundred million. Two keys that
+// agree in the 64-bit hash only are kept apart by probing the next slot, so
+// they are not taken for duplicates. The seeds are random per set, so no
+// input can be built to collide on purpose.
 type keySet struct {
-	hash    func([]byte) uint64 // replaced in tests to force collisions
-	index   map[uint64]int32
-	entries []keyEntry
-	arena   []byte
+	hash  func([]byte) (uint64, uint32) // replaced in tests to force collisions
+	index map[uint64]keySlot
 }
 
-// keyEntry is 12 bytes: a file of a million moons keeps a million of them.
-type keyEntry struct {
-	off    uint32 // in arena
-	n, row int32
+// keySlot is what the set keeps per key besides its 64-bit hash.
+type keySlot struct {
+	row   int32
+	check uint32 // the second hash, confirming a match of the first
 }
 
 func newKeySet() *keySet {
-	seed := maphash.MakeSeed()
-	return &keySet{hash: func(b []byte) uint64 { return maphash.Bytes(seed, b) }, index: map[uint64]int32{}}
+	s1, s2 := maphash.MakeSeed(), maphash.MakeSeed()
+	return &keySet{
+		hash: func(b []byte) (uint64, uint32) {
+			return maphash.Bytes(s1, b), uint32(maphash.Bytes(s2, b))
+		},
+		index: map[uint64]keySlot{},
+	}
 }
 
 // add records key with row; if key is already present it returns the first
-// row and false. Past its capacity (4 GiB of keys, 2^31 rows) it returns
-// -1 and false.
+// row and false. For a row number above 2³¹−1 it returns -1 and false.
 func (s *keySet) add(key []byte, row int) (first int, added bool) {
-	return s.addIn(s.index, key, row)
-}
-
-// addIn is add with its own index map, sharing the arena.
-func (s *keySet) addIn(index map[uint64]int32, key []byte, row int) (first int, added bool) {
-	h := s.hash(key)
+	h, check := s.hash(key)
 	for {
-		i, ok := index[h]
+		e, ok := s.index[h]
 		if !ok {
 			break
 		}
-		e := s.entries[i]
-		if bytes.Equal(s.arena[e.off:e.off+uint32(e.n)], key) {
+		if e.check == check {
 			return int(e.row), false
 		}
-		h++ // a collision of different keys: probe on
+		h++ // the first hash alone collides: probe on
 	}
-	if len(s.arena)+len(key) > math.MaxUint32 || len(s.entries) >= math.MaxInt32 || row > math.MaxInt32 {
+	if row > math.MaxInt32 || row < 0 {
 		return -1, false
 	}
-	index[h] = int32(len(s.entries))
-	s.entries = append(s.entries, keyEntry{off: uint32(len(s.arena)), n: int32(len(key)), row: int32(row)})
-	s.arena = append(s.arena, key...)
+	s.index[h] = keySlot{row: int32(row), check: check}
 	return row, true
+}
+
+// appendMoonKey appends the duplicate check's key of a moon: the natural
+// keys (schema.NameKey) of its planet and its name, the planet's prefixed
+// by its length so that no split of the bytes between the two is ambiguous.
+func appendMoonKey(b []byte, planet, name string) []byte {
+	b = append(b, 0, 0, 0, 0)
+	start := len(b)
+	b = appendNameKey(b, planet)
+	binary.LittleEndian.PutUint32(b[start-4:], uint32(len(b)-start))
+	return appendNameKey(b, name)
 }

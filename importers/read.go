@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode"
@@ -69,15 +70,14 @@ func (v *bodyVal) same(value float64, u schema.Uncertainty) bool {
 }
 
 // bodyState tracks one planet or star across the rows of a file, so that two
-// rows cannot give it different values.
+// rows cannot give it different values. A file of many planets keeps one per
+// planet and star: 64 bytes, plus its values (vals holds exactly the keys
+// the first rows gave, not append's spare capacity).
 type bodyState struct {
-	name    string // display name, normalised
-	row     int    // first row naming it
-	star    string // planets: the star's display name, "" if none given yet
-	starKey string
-	starRow int
-	vals    []bodyVal        // the planet's (or star's) keys seen so far
-	moons   map[uint64]int32 // planets: the moons named so far (see keySet)
+	name    string    // display name, normalised
+	star    string    // planets: the star's display name, "" if none given yet
+	vals    []bodyVal // the planet's (or star's) keys seen so far
+	starRow int32     // planets: the row that gave star
 }
 
 // reader holds the state of one Read.
@@ -86,7 +86,7 @@ type reader struct {
 	opt    Options
 	c      collector
 	intern map[string]string
-	moons  *keySet // arena of moon name keys; each planet indexes its own
+	moons  *keySet // the moons named so far, by planet and name
 	bodies map[string]*bodyState
 	keybuf []byte
 	params []schema.Param
@@ -333,13 +333,10 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 
 	// Duplicates, then conflicts with earlier rows about the same planet or star.
 	if rec.Name != "" && planet != "" {
-		pl := rd.body(schema.KindPlanet, planet, true, row)
-		if pl.moons == nil {
-			pl.moons = make(map[uint64]int32, 8)
-		}
-		rd.keybuf = appendNameKey(rd.keybuf[:0], rec.Name)
-		if first, added := rd.moons.addIn(pl.moons, rd.keybuf, row); first < 0 {
-			rd.fail(row, -1, "", "", fmt.Errorf("%w: too many moons in one file for the duplicate check; split the file", ErrTableSyntax), "")
+		rd.body(schema.KindPlanet, planet, true)
+		rd.keybuf = appendMoonKey(rd.keybuf[:0], planet, rec.Name)
+		if first, added := rd.moons.add(rd.keybuf, row); first < 0 {
+			rd.fail(row, -1, "", "", fmt.Errorf("%w: row %d is beyond the duplicate check's reach (2³¹−1 rows); split the file", ErrTableSyntax, row), "")
 		} else if !added {
 			rd.fail(row, p.text[fieldName], "name", rawName,
 				fmt.Errorf("%w: %q of planet %q is also on row %d; give each moon once per file", ErrDuplicateMoon, rec.Name, planet, first), "")
@@ -507,14 +504,14 @@ func (rd *reader) failPair(kp *keyPlan, row int, cells []string, a, b role, pres
 
 // body returns the state of a planet or star, nil if not seen yet. The last
 // planet looked up is cached: rows of one planet usually come together.
-func (rd *reader) body(kind schema.Kind, name string, create bool, row int) *bodyState {
+func (rd *reader) body(kind schema.Kind, name string, create bool) *bodyState {
 	if kind == schema.KindPlanet && rd.lastPlanet != nil && name == rd.lastPlanet.name {
 		return rd.lastPlanet
 	}
 	rd.bodybuf = appendNameKey(append(rd.bodybuf[:0], kind[0], 0), name)
 	st := rd.bodies[string(rd.bodybuf)]
 	if st == nil && create {
-		st = &bodyState{name: name, row: row}
+		st = &bodyState{name: name}
 		rd.bodies[string(rd.bodybuf)] = st
 	}
 	if kind == schema.KindPlanet && st != nil {
@@ -526,8 +523,8 @@ func (rd *reader) body(kind schema.Kind, name string, create bool, row int) *bod
 // bodyChecks compares this row's planet and star values with earlier rows'.
 func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 	p := rd.p
-	pl := rd.body(schema.KindPlanet, rec.Planet, false, row)
-	if pl != nil && rec.Star != "" && pl.star != "" && rec.Star != pl.star && schema.NameKey(rec.Star) != pl.starKey {
+	pl := rd.body(schema.KindPlanet, rec.Planet, false)
+	if pl != nil && rec.Star != "" && pl.star != "" && rec.Star != pl.star && schema.NameKey(rec.Star) != schema.NameKey(pl.star) {
 		rd.fail(row, p.text[fieldStar], "star", rec.Star,
 			fmt.Errorf("%w: planet %q has star %q here but star %q on row %d; expected one star per planet", ErrPlanetConflict, rec.Planet, rec.Star, pl.star, pl.starRow), "")
 	}
@@ -550,7 +547,7 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 				rd.fail(row, rd.colOf(par.Key), par.Key, "", fmt.Errorf("%w: %s is a star's value but the row names no star; expected a star column (or [constants] star in a map)", ErrMissingName, par.Key), "")
 				continue
 			}
-			st = rd.body(schema.KindStar, star, false, row)
+			st = rd.body(schema.KindStar, star, false)
 		default:
 			continue
 		}
@@ -574,9 +571,9 @@ func (rd *reader) bodyChecks(rec *schema.Record, row int, cells []string) {
 
 // commitBodies remembers this accepted row's planet and star values.
 func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
-	pl := rd.body(schema.KindPlanet, rec.Planet, true, row)
+	pl := rd.body(schema.KindPlanet, rec.Planet, true)
 	if rec.Star != "" && pl.star == "" {
-		pl.star, pl.starKey, pl.starRow = rec.Star, schema.NameKey(rec.Star), row
+		pl.star, pl.starRow = rec.Star, int32(min(row, math.MaxInt32))
 	}
 	if !rd.p.planetKeys {
 		return
@@ -591,15 +588,31 @@ func (rd *reader) commitBodies(rec *schema.Record, row int, cells []string) {
 		switch rd.kinds[i] {
 		case schema.KindPlanet:
 		case schema.KindStar:
-			st = rd.body(schema.KindStar, star, true, row)
+			st = rd.body(schema.KindStar, star, true)
 		default:
 			continue
 		}
 		if st.val(rd.kidx[i]) == nil {
 			a, b := packUnc(par.Unc)
+			if cap(st.vals) == len(st.vals) {
+				// Room for this row's other keys of the same kind too, and
+				// no more: most bodies get all their values from one row.
+				st.vals = slices.Grow(st.vals, rd.countKind(rd.kinds[i]))
+			}
 			st.vals = append(st.vals, bodyVal{kidx: uint16(rd.kidx[i]), kind: par.Unc.Kind, row: int32(min(row, math.MaxInt32)), value: par.Value, a: a, b: b})
 		}
 	}
+}
+
+// countKind is how many of this row's planet and star values are of kind k.
+func (rd *reader) countKind(k schema.Kind) int {
+	n := 0
+	for _, i := range rd.hosts {
+		if rd.kinds[i] == k {
+			n++
+		}
+	}
+	return n
 }
 
 func (st *bodyState) val(kidx int) *bodyVal {

@@ -50,6 +50,11 @@ type Result struct {
 	Format  string   // the format read ("csv", "tsv", …)
 	Columns []string // the file's column headers, as written
 	Rows    int      // data rows read, accepted or not
+
+	// Warnings are notes for the user that do not stop the import, in the
+	// order found: for now, that a VOTable holds tables besides the one read
+	// (and how to choose another). A caller should print them.
+	Warnings []string
 }
 
 // Reject is a row refused under SkipInvalid.
@@ -109,6 +114,12 @@ func ReadStream(name string, r io.Reader, opt Options, emit func(*schema.Record)
 			return nil, &ErrorList{File: name, Errs: []error{&ParseError{File: name, Err: err}}}
 		}
 		return nil, &ErrorList{File: name, Errs: []error{&ParseError{File: name, Err: fmt.Errorf("%w: %w", ErrTableSyntax, err)}}}
+	}
+	// A reader holding files or handles (xlsx) releases them at its end;
+	// this covers every early stop: an error from emit, a header problem, a
+	// syntax error.
+	if c, ok := tr.(io.Closer); ok {
+		defer c.Close()
 	}
 	res := &Result{File: name, Format: format}
 	if err := readTable(name, tr, opt, res, emit); err != nil {

@@ -11,7 +11,11 @@ package importers
 // may return errors from Next that implement `Recoverable() bool` (returning
 // true) for a problem confined to one row; Read then records it against the
 // row and goes on. Any other error from Next ends the file. A reader may also
-// implement `HeaderRow() int` so header problems name the right line.
+// implement `HeaderRow() int` so header problems name the right line,
+// `Warnings() []string` for notes that do not stop the import (read once Next
+// has returned io.EOF, passed on in Result.Warnings), and io.Closer to
+// release files or handles it holds (ReadStream closes it however reading
+// ends).
 
 import (
 	"bytes"

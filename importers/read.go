@@ -165,6 +165,9 @@ func readTable(name string, tr table.Reader, opt Options, res *Result, emit func
 			return err
 		}
 	}
+	if w, ok := tr.(interface{ Warnings() []string }); ok {
+		res.Warnings = append(res.Warnings, w.Warnings()...)
+	}
 	return rd.c.err()
 }
 

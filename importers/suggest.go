@@ -32,6 +32,9 @@ func SuggestMap(name string, r io.Reader, opt Options) (string, error) {
 	if err != nil {
 		return "", fmt.Errorf("suggest a map for %s: %w", name, err)
 	}
+	if c, ok := tr.(io.Closer); ok {
+		defer c.Close() // only a sample of rows is read
+	}
 	cols := tr.Columns()
 	if len(cols) > maxColumns {
 		return "", fmt.Errorf("suggest a map for %s: %w: the header has %d columns; tidesift reads at most %d", name, ErrTableSyntax, len(cols), maxColumns)

@@ -62,6 +62,13 @@
 // Names are stored in Unicode NFC, trimmed, with runs of white space
 // collapsed; case is kept for display (the store matches case-insensitively).
 //
+// tidesift's own CSV output puts an apostrophe before text that a spreadsheet
+// would run as a formula (a leading =, +, -, @, tab, CR or NUL). Reading a
+// canonical CSV or TSV undoes exactly that: in a text column (name, planet,
+// star, alias, source, key_source) "'=Kel" reads as "=Kel", while "'Ara" and
+// "''=Kel" are kept as written. A file read through a map keeps its text as
+// written.
+//
 // # Column maps
 //
 // A foreign table (an archive download, a colleague's sheet) is read through

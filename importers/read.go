@@ -96,6 +96,11 @@ type reader struct {
 	hosts  []int                                  // positions in params of planet and star keys
 	last   [fieldIgnore]struct{ raw, val string } // one-entry intern caches
 
+	// unquote: the file is CSV or TSV, whose text cells may carry the
+	// apostrophe tidesift's own CSV output puts before formula-like text
+	// (see unneutralise); text cells are read without it.
+	unquote bool
+
 	bodybuf    []byte
 	lastPlanet *bodyState
 	rowErr     []error
@@ -109,6 +114,9 @@ func readTable(name string, tr table.Reader, opt Options, res *Result, emit func
 		intern: map[string]string{},
 		moons:  newKeySet(),
 		bodies: map[string]*bodyState{},
+		// Only tidesift's own layout is read back: a foreign file's
+		// apostrophes, read through a map, are the file's own text.
+		unquote: (res.Format == "csv" || res.Format == "tsv") && opt.Map == nil,
 	}
 	headerRow := 1
 	if hr, ok := tr.(interface{ HeaderRow() int }); ok {
@@ -232,6 +240,16 @@ func cell(cells []string, i int) string {
 	return strings.TrimSpace(cells[i])
 }
 
+// textCell is cell for a text column (a name, a source): in a canonical CSV
+// or TSV it also undoes the export side's formula neutralisation.
+func (rd *reader) textCell(cells []string, i int) string {
+	s := cell(cells, i)
+	if rd.unquote {
+		s = unneutralise(s)
+	}
+	return s
+}
+
 // isMissing reports the spellings that mean "no value": empty, "--", NaN,
 // null and N/A (any case). Inf is not among them: it is an error.
 func isMissing(s string) bool {
@@ -285,13 +303,13 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	*rec = schema.Record{File: p.file, Row: row}
 
 	// Text fields.
-	rawName := cell(cells, p.text[fieldName])
+	rawName := rd.textCell(cells, p.text[fieldName])
 	if rawName == "" {
 		rd.fail(row, p.text[fieldName], "name", "", fmt.Errorf("%w: the moon's name is empty", ErrMissingName), "")
 	} else {
 		rec.Name = normName(rawName)
 	}
-	planet := cell(cells, p.text[fieldPlanet])
+	planet := rd.textCell(cells, p.text[fieldPlanet])
 	if planet == "" {
 		planet = p.constName[fieldPlanet]
 	} else {
@@ -301,17 +319,19 @@ func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 		rd.fail(row, p.text[fieldPlanet], "planet", "", fmt.Errorf("%w: the planet's name is empty; a moon is known by its name and its planet", ErrMissingName), "")
 	}
 	rec.Planet = planet
-	if s := cell(cells, p.text[fieldStar]); s != "" {
+	if s := rd.textCell(cells, p.text[fieldStar]); s != "" {
 		rec.Star = rd.cached(fieldStar, s, rd.internName)
 	} else {
 		rec.Star = p.constName[fieldStar]
 	}
-	if s := cell(cells, p.text[fieldSource]); s != "" {
+	if s := rd.textCell(cells, p.text[fieldSource]); s != "" {
 		rec.Source = rd.cached(fieldSource, s, rd.internText)
 	} else {
 		rec.Source = p.constName[fieldSource]
 	}
-	if s := cell(cells, p.text[fieldAlias]); s != "" {
+	// The whole cell, as written, before it is split: the export side
+	// neutralises the joined list, not each alias.
+	if s := rd.textCell(cells, p.text[fieldAlias]); s != "" {
 		for a := range strings.SplitSeq(s, ";") {
 			if a = strings.TrimSpace(a); a != "" {
 				rec.Aliases = append(rec.Aliases, normName(a))
@@ -408,7 +428,7 @@ func (rd *reader) param(kp *keyPlan, cells []string, row int) (schema.Param, boo
 	}
 	par := schema.Param{Key: key, Value: v, Status: schema.StatusMeasured}
 	if si := kp.col[roleSource]; si >= 0 {
-		if s := cell(cells, si); s != "" {
+		if s := rd.textCell(cells, si); s != "" {
 			par.Source = rd.internText(s)
 		}
 	}

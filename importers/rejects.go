@@ -46,9 +46,34 @@ func WriteRejects(w io.Writer, file string, rejects []Reject) error {
 	return nil
 }
 
+// formulaLead reports whether a spreadsheet would read text starting with b
+// as a formula or a command: '=', '+', '-', '@', tab, CR and NUL (OWASP "CSV
+// injection" guidance, common practice). It is the same set as the export
+// package's formulaLead (export/safe.go), which writes the apostrophe that
+// unneutralise removes; change both together. importers may not import
+// export (data flows the other way), hence the copy; TestNeutralisationRule
+// in export checks that the two agree on every byte.
+func formulaLead(b byte) bool {
+	switch b {
+	case '=', '+', '-', '@', '\t', '\r', 0:
+		return true
+	}
+	return false
+}
+
+// unneutralise undoes the apostrophe the export side puts before a text cell
+// that starts with a formula lead (export.SafeText): "'=Kel" reads as "=Kel".
+// Any other text is kept as it is, a leading apostrophe included ("'Ara").
+func unneutralise(s string) string {
+	if len(s) >= 2 && s[0] == '\'' && formulaLead(s[1]) {
+		return s[1:]
+	}
+	return s
+}
+
 // safeCell neutralises spreadsheet formula injection in a text cell.
 func safeCell(s string) string {
-	if s == "" || !strings.ContainsAny(s[:1], "=+-@\t\r\x00") {
+	if s == "" || !formulaLead(s[0]) {
 		return s
 	}
 	if _, err := strconv.ParseFloat(strings.TrimSpace(s), 64); err == nil {

@@ -65,9 +65,9 @@
 // tidesift's own CSV output puts an apostrophe before text that a spreadsheet
 // would run as a formula (a leading =, +, -, @, tab, CR or NUL). Reading a
 // canonical CSV or TSV undoes exactly that: in a text column (name, planet,
-// star, alias, source, key_source) "'=Kel" reads as "=Kel", while "'Ara" and
-// "''=Kel" are kept as written. A file read through a map keeps its text as
-// written.
+// star, alias, source, key_source) "'=Kel" reads as "=Kel", while "'Ara" (an
+// apostrophe before a letter) and two apostrophes before "=" are kept as
+// written. A file read through a map keeps its text as written.
 //
 // # Column maps
 //

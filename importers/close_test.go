@@ -158,3 +158,34 @@ func TestReaderClosedOnEarlyStop(t *testing.T) {
 		})
 	}
 }
+
+// TestJSONKeyOnlyInThirdObject reads JSON through Read (which hands the
+// format reader a buffered reader that cannot seek): a key that only the
+// third object has is honoured, not refused. Names and values are invented.
+func TestJSONKeyOnlyInThirdObject(t *testing.T) {
+	const src = `[
+{"name": "Kel", "planet": "Vorlan"},
+{"name": "Ara", "planet": "Vorlan"},
+{"name": "Ossa", "planet": "Vorlan", "eccentricity": 0.012},
+{"name": "Tiv", "planet": "Vorlan"}
+]`
+	res, err := Read("moons.json", strings.NewReader(src), Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Records) != 4 {
+		t.Fatalf("%d records, want 4", len(res.Records))
+	}
+	for i, r := range res.Records {
+		want := 0
+		if i == 2 {
+			want = 1
+		}
+		if len(r.Params) != want {
+			t.Errorf("record %d (%s): %d params, want %d", i+1, r.Name, len(r.Params), want)
+		}
+	}
+	if p := res.Records[2].Params; len(p) == 1 && (p[0].Key != "eccentricity" || p[0].Value != 0.012) {
+		t.Errorf("third record's param %+v, want eccentricity 0.012", p[0])
+	}
+}

@@ -38,13 +38,16 @@
 //
 // # Columns
 //
-// The columns are the union of the keys, in order of first appearance. When
-// the input can seek (a regular file), the reader scans it once to collect the
-// keys and then rewinds, so later objects may carry keys the first one lacks.
-// When it cannot (a pipe, or Options.NoPrescan), the columns are the keys of
-// the first object, and a later object with a key the first one lacks is an
-// error naming the element and the key: put every key in the first object,
-// with null where the value is unknown.
+// The columns are the union of the keys, in order of first appearance, so
+// later objects may carry keys the first one lacks. To know them before the
+// first row, the reader scans the input once: a seekable input (a regular
+// file) is then rewound; any other (a pipe, or the buffered reader the
+// importers pass) is copied to a temporary file during that scan and the rows
+// are read from the copy, which Close (or the end of Next) removes. Memory
+// holds one element at a time either way. With Options.NoPrescan the columns
+// are the keys of the first object and nothing is copied; a later object
+// with a key the first one lacks is then an error naming the element and the
+// key.
 //
 // # Row numbers
 //

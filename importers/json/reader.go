@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"strings"
 	"unicode/utf8"
 
@@ -31,8 +32,8 @@ var (
 	ErrNotTable = errors.New("expected an array of objects or one object per line")
 	// ErrNested is returned for a value that is an object or an array.
 	ErrNested = errors.New("nested objects and arrays are not allowed as values; expected a number, a string or null")
-	// ErrUnknownKey is returned, when the columns come from the first object,
-	// for a later object with a key the first one lacks.
+	// ErrUnknownKey is returned, when the columns come from the first object
+	// (Options.NoPrescan), for a later object with a key the first one lacks.
 	ErrUnknownKey = errors.New("key not in the first object (put every key in the first object, with null where unknown)")
 	// ErrDuplicateKey is returned for an object that repeats a key.
 	ErrDuplicateKey = errors.New("key repeated in one object")
@@ -51,9 +52,13 @@ type Options struct {
 	// MaxElement is the largest element (one object) accepted, in bytes as
 	// written (0: DefaultMaxElement).
 	MaxElement int
-	// NoPrescan takes the columns from the first object even when the input
-	// can seek, so the input is read once.
+	// NoPrescan takes the columns from the first object, so the input is read
+	// once and nothing is spooled; a later object with another key is then
+	// an error (ErrUnknownKey).
 	NoPrescan bool
+	// TmpDir is where an input that cannot seek is spooled ("" for the
+	// system default).
+	TmpDir string
 }
 
 func (o Options) withDefaults() Options {
@@ -115,6 +120,8 @@ type Reader struct {
 	seen  []int // seen[i] == gen when column i was set in the current object
 	gen   int
 
+	spool *os.File // the copy of an input that cannot seek, removed by Close
+
 	raw     stdjson.RawMessage // the current element, as read
 	elem    int                // elements read so far
 	pending bool               // cells holds the first object, not yet returned by Next
@@ -125,12 +132,20 @@ type Reader struct {
 
 var _ table.Reader = (*Reader)(nil)
 
-// NewReader starts reading a table from r. It reads up to the first object
-// (and, when r is an io.Seeker and Options.NoPrescan is false, the whole input
-// once to collect the keys, then seeks back to where r was).
+// NewReader starts reading a table from r. Unless Options.NoPrescan is set,
+// it first reads the whole input once to collect the keys of every object:
+// when r is an io.Seeker it then seeks back to where r was; otherwise (a
+// pipe, or the buffered reader the importers pass) it copies the input to a
+// temporary file as it goes and reads the rows from that copy, so memory
+// holds one element at a time either way. Close removes the copy; Next does
+// so itself once it has returned io.EOF or an error. With NoPrescan it reads
+// only up to the first object.
 func NewReader(r io.Reader, opt Options) (*Reader, error) {
 	opt = opt.withDefaults()
-	if s, ok := r.(io.Seeker); ok && !opt.NoPrescan {
+	if opt.NoPrescan {
+		return firstObject(r, opt)
+	}
+	if s, ok := r.(io.Seeker); ok {
 		if pos, err := s.Seek(0, io.SeekCurrent); err == nil {
 			cols, err := prescan(r, opt)
 			if err != nil {
@@ -149,6 +164,78 @@ func NewReader(r io.Reader, opt Options) (*Reader, error) {
 			return rd, nil
 		}
 	}
+	return spooled(r, opt)
+}
+
+// spooled collects the keys while copying r to a temporary file, then reads
+// the rows from the copy.
+func spooled(r io.Reader, opt Options) (*Reader, error) {
+	tmp, err := os.CreateTemp(opt.TmpDir, "tidesift-json-*.json")
+	if err != nil {
+		return nil, fmt.Errorf("spool the JSON input to a temporary file (it cannot seek, and the keys of every object are needed first): %w", err)
+	}
+	drop := func() {
+		tmp.Close()
+		os.Remove(tmp.Name())
+	}
+	w := &spoolWriter{f: tmp}
+	cols, err := prescan(io.TeeReader(r, w), opt)
+	if w.err != nil {
+		drop()
+		return nil, fmt.Errorf("spool the JSON input to a temporary file: %w", w.err)
+	}
+	if err != nil {
+		drop()
+		return nil, err
+	}
+	if _, err := tmp.Seek(0, io.SeekStart); err != nil {
+		drop()
+		return nil, fmt.Errorf("rewind the spooled JSON input: %w", err)
+	}
+	rd, err := start(tmp, opt, true)
+	if err != nil {
+		drop()
+		return nil, err
+	}
+	rd.spool = tmp
+	for _, c := range cols {
+		rd.addColumn(c.Name)
+	}
+	return rd, nil
+}
+
+// spoolWriter keeps the first write error, which a TeeReader would otherwise
+// report as if the input had failed.
+type spoolWriter struct {
+	f   *os.File
+	err error
+}
+
+func (w *spoolWriter) Write(p []byte) (int, error) {
+	if w.err != nil {
+		return 0, w.err
+	}
+	n, err := w.f.Write(p)
+	w.err = err
+	return n, err
+}
+
+// Close removes the spooled copy of the input, if any. Calling it again is
+// harmless.
+func (rd *Reader) Close() error {
+	if rd.spool == nil {
+		return nil
+	}
+	err := rd.spool.Close()
+	if rerr := os.Remove(rd.spool.Name()); err == nil {
+		err = rerr
+	}
+	rd.spool = nil
+	return err
+}
+
+// firstObject is NewReader with the columns of the first object only.
+func firstObject(r io.Reader, opt Options) (*Reader, error) {
 	rd, err := start(r, opt, false)
 	if err != nil {
 		return nil, err
@@ -445,6 +532,7 @@ func (rd *Reader) Next() ([]string, int, error) {
 	}
 	if !rd.readObject() {
 		rd.done = true
+		rd.Close()
 		return nil, 0, rd.err
 	}
 	return rd.cells, rd.row(), nil

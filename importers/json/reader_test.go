@@ -108,31 +108,78 @@ func TestFixtures(t *testing.T) {
 	}
 }
 
-func TestColumnsFromFirstObjectWhenNotSeekable(t *testing.T) {
+func TestColumnsUnionOfKeys(t *testing.T) {
 	src := `[{"name":"A","mass [kg]":1},{"name":"B","radius [km]":2}]`
-	// Seekable: union of keys.
-	rd, err := NewReader(strings.NewReader(src), Options{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if got, want := names(rd), []string{"name", "mass [kg]", "radius [km]"}; !reflect.DeepEqual(got, want) {
-		t.Errorf("seekable columns = %q, want %q", got, want)
-	}
-	if got := readAll(t, rd); !reflect.DeepEqual(got[1].cells, []string{"B", "", "2"}) {
-		t.Errorf("row 2 = %q", got[1].cells)
-	}
-	// Not seekable (and NoPrescan): the new key is an error naming element and key.
-	for name, opt := range map[string]struct {
-		r   io.Reader
-		opt Options
-	}{
-		"pipe":      {noSeek{strings.NewReader(src)}, Options{}},
-		"NoPrescan": {strings.NewReader(src), Options{NoPrescan: true}},
+	// Seekable (rewound) and not seekable (spooled): union of keys.
+	for name, r := range map[string]io.Reader{
+		"seekable": strings.NewReader(src),
+		"pipe":     noSeek{strings.NewReader(src)},
 	} {
-		err := readErr(opt.r, opt.opt)
+		dir := t.TempDir()
+		rd, err := NewReader(r, Options{TmpDir: dir})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got, want := names(rd), []string{"name", "mass [kg]", "radius [km]"}; !reflect.DeepEqual(got, want) {
+			t.Errorf("%s: columns = %q, want %q", name, got, want)
+		}
+		if got := readAll(t, rd); !reflect.DeepEqual(got[1].cells, []string{"B", "", "2"}) {
+			t.Errorf("%s: row 2 = %q", name, got[1].cells)
+		}
+		if left, _ := os.ReadDir(dir); len(left) != 0 {
+			t.Errorf("%s: %d temporary files left after the last row", name, len(left))
+		}
+	}
+	// NoPrescan: the new key is an error naming element and key.
+	for name, r := range map[string]io.Reader{
+		"seekable": strings.NewReader(src),
+		"pipe":     noSeek{strings.NewReader(src)},
+	} {
+		err := readErr(r, Options{NoPrescan: true})
 		var re *RowError
 		if !errors.As(err, &re) || !errors.Is(err, ErrUnknownKey) || re.Row != 2 || re.Key != "radius [km]" {
-			t.Errorf("%s: err = %v, want ErrUnknownKey at element 2, key radius [km]", name, err)
+			t.Errorf("NoPrescan, %s: err = %v, want ErrUnknownKey at element 2, key radius [km]", name, err)
+		}
+	}
+}
+
+// TestKeyOnlyInThirdObject reads, from a pipe, NDJSON whose third object
+// alone has a key: the key is a column, its cell empty in the other rows,
+// and the spooled copy is gone once the rows are read, or once Close is
+// called by a reader that stops early.
+func TestKeyOnlyInThirdObject(t *testing.T) {
+	const src = `{"name":"A","planet":"P"}
+{"name":"B","planet":"P"}
+{"name":"C","planet":"P","eccentricity":0.01}
+{"name":"D","planet":"P"}
+`
+	want := []row{{1, []string{"A", "P", ""}}, {2, []string{"B", "P", ""}}, {3, []string{"C", "P", "0.01"}}, {4, []string{"D", "P", ""}}}
+	for _, early := range []bool{false, true} {
+		dir := t.TempDir()
+		pr, pw := io.Pipe()
+		go func() { io.WriteString(pw, src); pw.Close() }()
+		rd, err := NewReader(pr, Options{TmpDir: dir})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := names(rd); !reflect.DeepEqual(got, []string{"name", "planet", "eccentricity"}) {
+			t.Errorf("columns %q", got)
+		}
+		if early {
+			if _, _, err := rd.Next(); err != nil {
+				t.Fatal(err)
+			}
+			if left, _ := os.ReadDir(dir); len(left) != 1 {
+				t.Errorf("%d spooled files while reading, want 1", len(left))
+			}
+			if err := rd.Close(); err != nil {
+				t.Errorf("Close: %v", err)
+			}
+		} else if got := readAll(t, rd); !reflect.DeepEqual(got, want) {
+			t.Errorf("rows %v, want %v", got, want)
+		}
+		if left, _ := os.ReadDir(dir); len(left) != 0 {
+			t.Errorf("early stop %v: %d temporary files left", early, len(left))
 		}
 	}
 }

@@ -19,14 +19,18 @@ type TableOptions struct {
 // Caution is the sentence every human-facing output carries.
 const Caution = "Scores are a triage aid on simplified models; not a substitute for expert review."
 
-// assumedMark flags a target with at least one input taken from a profile prior.
+// assumedMark flags a target that rests on a profile prior instead of a
+// catalog value: one with at least one entry in rank.Target.AssumedInputs.
+// Model parameters that every target takes from the profile alike do not
+// count, so the mark tells targets apart.
 const assumedMark = "*"
 
 // WriteTable writes the terminal table of `tidesift rank`: median rank with
-// its 5–95 % interval, name (marked * when an input was assumed), planet,
-// score median with its range, P(rank ≤ k), ocean probability and the input
-// that drives most of the score's uncertainty, then a footer explaining the
-// mark, the run (samples, seed, profile, catalog revision) and the caution.
+// its 5–95 % interval, name (marked * when a missing catalog value was
+// assumed from a prior), planet, score median with its range, P(rank ≤ k),
+// ocean probability and the input that drives most of the score's
+// uncertainty, then a footer explaining the mark, the run (samples, seed,
+// profile, catalog revision) and the caution.
 // The text is plain (no colours, no terminal control) and aligned with
 // text/tabwriter, so it is stable enough for goldens.
 func WriteTable(w io.Writer, r *rank.Result, opt TableOptions) error {
@@ -73,7 +77,7 @@ func WriteTable(w io.Writer, r *rank.Result, opt TableOptions) error {
 		put("Showing %d of %d targets.\n", n, len(r.Targets))
 	}
 	if marked {
-		put("%s marks a target with inputs assumed from the profile's priors, not measured.\n", assumedMark)
+		put("%s marks a target with inputs assumed from the profile's priors in place of missing catalog values.\n", assumedMark)
 	}
 	if n := len(r.Excluded); n > 0 {
 		const listed = 5

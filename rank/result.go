@@ -30,22 +30,30 @@ type Result struct {
 
 // Target is one ranked moon.
 type Target struct {
-	Name          string             `json:"name"`
-	Planet        string             `json:"planet"`
-	Star          string             `json:"star"`
-	Rank          float64            `json:"rank"` // median rank over samples (1 = best)
-	RankP05       float64            `json:"rank_p05"`
-	RankP95       float64            `json:"rank_p95"`
-	PTop          PTop               `json:"p_top"`
-	Score         Quantiles          `json:"score"`
-	ScoreMedianSE float64            `json:"score_p50_se"` // Monte Carlo standard error of the score median
+	Name          string    `json:"name"`
+	Planet        string    `json:"planet"`
+	Star          string    `json:"star"`
+	Rank          float64   `json:"rank"` // median rank over samples (1 = best)
+	RankP05       float64   `json:"rank_p05"`
+	RankP95       float64   `json:"rank_p95"`
+	PTop          PTop      `json:"p_top"`
+	Score         Quantiles `json:"score"`
+	ScoreMedianSE float64   `json:"score_p50_se"` // Monte Carlo standard error of the score median
+	// AssumedInputs lists, in key order, the catalog keys (schema.LookupKey)
+	// that the catalog lacked for this target and a profile prior filled in:
+	// the inputs the target's ranking rests on instead of a measurement. It
+	// is never nil (an empty list when every catalog input was given). Model
+	// parameters that only a profile sets, such as the rock end member's
+	// density (profile.RockDensityKey), are the same assumption for every
+	// target and are not missing data, so they are left out here; they stay
+	// in Inputs (status assumed) and Priors, where the method is described.
 	AssumedInputs []string           `json:"assumed_inputs"`
 	Drivers       []Driver           `json:"drivers"` // largest share first
 	Metrics       Metrics            `json:"metrics"`
 	Flags         map[string]float64 `json:"flags,omitempty"` // physics validity flag → fraction of samples that raised it
 	Notes         []string           `json:"notes,omitempty"` // e.g. a metric the model could not compute in some samples
 	Inputs        []schema.Param     `json:"-"`               // every input used, measured or assumed, for exporters
-	Priors        map[string]string  `json:"-"`               // key → human description of the prior used for an assumed input
+	Priors        map[string]string  `json:"-"`               // key → description of the prior of every input taken from the profile: AssumedInputs and model parameters
 }
 
 // Excluded is a moon left out of the ranking because a required input is

@@ -441,7 +441,8 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 	out := t.out
 	out.Name, out.Planet, out.Star = t.moon.Name, t.moon.Parent, t.star
 	out.Inputs = p.params()
-	out.AssumedInputs, out.Priors = p.assumed()
+	assumed, priors := p.assumed()
+	out.AssumedInputs, out.Priors = catalogKeys(assumed), priors
 
 	// Drivers, from the score's mean and variance over all samples.
 	var mean, vr float64
@@ -510,6 +511,21 @@ func (w *worker) run(t *target, seed uint64, row []float32) {
 			out.Flags[physics.Flag(1<<b).String()] = float64(c) / float64(S)
 		}
 	}
+}
+
+// catalogKeys keeps the keys of keys that the catalog can hold (those of
+// schema.LookupKey's registry), in order. An assumed input is one of them
+// only when the catalog lacked it for the target; a model parameter that only
+// a profile sets (profile.RockDensityKey) is assumed for every target alike,
+// so it would mark every target and tell a reviewer nothing.
+func catalogKeys(keys []string) []string {
+	out := make([]string, 0, len(keys))
+	for _, k := range keys {
+		if _, ok := schema.LookupKey(k); ok {
+			out = append(out, k)
+		}
+	}
+	return out
 }
 
 // sharedCache keeps the full sample columns of the planet and star inputs a

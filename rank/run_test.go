@@ -193,12 +193,16 @@ func TestAssumedInputs(t *testing.T) {
 		return Target{}
 	}
 	drift := get("Drift")
-	want := []string{"obliquity", "k2_q", "bond_albedo", "rock_density"}
+	// AssumedInputs holds the catalog keys Drift lacks; rock_density, a
+	// model parameter only profiles set, is assumed too but never missing
+	// data, so it shows in Inputs and Priors only.
+	want := []string{"obliquity", "k2_q", "bond_albedo"}
 	if !reflect.DeepEqual(drift.AssumedInputs, want) {
 		t.Errorf("Drift assumed %v, want %v", drift.AssumedInputs, want)
 	}
+	fromPriors := append(slices.Clone(want), profile.RockDensityKey)
 	for _, in := range drift.Inputs {
-		assumed := slices.Contains(want, in.Key)
+		assumed := slices.Contains(fromPriors, in.Key)
 		if assumed != (in.Status == schema.StatusAssumed) {
 			t.Errorf("Drift input %s: status %s", in.Key, in.Status)
 		}
@@ -212,9 +216,17 @@ func TestAssumedInputs(t *testing.T) {
 	if drift.Priors["k2_q"] != "log-uniform 0.0001…0.1" {
 		t.Errorf("k2_q prior %q", drift.Priors["k2_q"])
 	}
+	if len(drift.Priors) != len(fromPriors) {
+		t.Errorf("Drift priors %v, want one for each of %v", drift.Priors, fromPriors)
+	}
+	// Brisk's catalog gives every input: not marked, though the profile's
+	// rock_density prior is still used and described.
 	brisk := get("Brisk")
-	if !slices.Equal(brisk.AssumedInputs, []string{"rock_density"}) {
-		t.Errorf("Brisk assumed %v", brisk.AssumedInputs)
+	if brisk.AssumedInputs == nil || len(brisk.AssumedInputs) != 0 {
+		t.Errorf("Brisk assumed %#v, want an empty list", brisk.AssumedInputs)
+	}
+	if brisk.Priors[profile.RockDensityKey] == "" {
+		t.Errorf("Brisk priors %v lack %s", brisk.Priors, profile.RockDensityKey)
 	}
 	// Ember: mass from density and radius, k2/Q from k2 and Q.
 	ember := get("Ember")

@@ -129,3 +129,27 @@ func TestDemoPeriodsFollowKepler(t *testing.T) {
 		t.Errorf("checked %d periods, want the eight Velmira b moons", checked)
 	}
 }
+
+// TestDemoObliquityGaps keeps the demo's assumed-input mark meaningful: most
+// Velmira b moons give an obliquity, each with an uncertainty, and some give
+// none, so a ranking assumes the prior for those moons only.
+func TestDemoObliquityGaps(t *testing.T) {
+	_, rows := readDemo(t)
+	var given, missing []string
+	for _, r := range rows {
+		if r["planet"] != "Velmira b" {
+			continue
+		}
+		if r["obliquity [deg]"] == "" {
+			missing = append(missing, r["name"])
+			continue
+		}
+		given = append(given, r["name"])
+		if r["obliquity_err"] == "" {
+			t.Errorf("%s: obliquity %s without an uncertainty", r["name"], r["obliquity [deg]"])
+		}
+	}
+	if len(given) <= len(missing) || len(missing) == 0 {
+		t.Errorf("Velmira b moons with an obliquity %v, without %v; want most with and at least one without", given, missing)
+	}
+}

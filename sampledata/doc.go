@@ -8,8 +8,10 @@
 //     resonant eccentricity), Ilmeth (an ice-covered ocean candidate with a
 //     moment of inertia), Korvanne (a large ice–rock moon), Pellisk (a small moon
 //     with active plumes), Dusmere (a cold, dead, rocky moon), Otharo (a captured
-//     moon on an inclined, eccentric orbit with an obliquity), Halvane (a thick
-//     nitrogen atmosphere) and Quennet (distant and cold);
+//     moon on an inclined, eccentric orbit with a large obliquity), Halvane (a
+//     thick nitrogen atmosphere) and Quennet (distant and cold). All but two
+//     have an (invented) obliquity; Dusmere and Quennet have none, so a
+//     ranking fills theirs from the profile's prior and marks them assumed;
 //   - Teodra, a cooler star, with the giant Teodra b and four exomoon candidates,
 //     Teodra b I–IV, whose values have wide (asymmetric, range and factor)
 //     uncertainties and some gaps (no k2/Q, no albedo, no mass).

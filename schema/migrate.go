@@ -15,7 +15,7 @@ import (
 
 // CurrentVersion is the catalog schema version this build writes: the number of
 // the last migration under migrations/. A test keeps the two in step.
-const CurrentVersion = 1
+const CurrentVersion = 2
 
 //go:embed migrations/*.sql
 var migrationFiles embed.FS
@@ -43,11 +43,21 @@ type Migration struct {
 	Version int    // the schema version after this step (1, 2, …)
 	Name    string // file name, e.g. "0001_catalog.sql"
 	SQL     string
+	// Go, when set, runs after SQL in the same transaction: for a step that
+	// SQL alone cannot express (re-encoding rows).
+	Go func(ctx context.Context, tx *sql.Tx) error
 }
 
 // Migrations returns the embedded migrations in order.
 func Migrations() ([]Migration, error) {
-	return loadMigrations(migrationFiles, "migrations")
+	migs, err := loadMigrations(migrationFiles, "migrations")
+	if err != nil {
+		return nil, err
+	}
+	for i := range migs {
+		migs[i].Go = goSteps[migs[i].Version]
+	}
+	return migs, nil
 }
 
 // loadMigrations reads dir/NNNN_name.sql files and checks they are numbered
@@ -167,6 +177,11 @@ func applyOne(ctx context.Context, db *sql.DB, m Migration) (err error) {
 	}
 	if _, err = tx.ExecContext(ctx, m.SQL); err != nil {
 		return fmt.Errorf("migration %s: %w", m.Name, err)
+	}
+	if m.Go != nil {
+		if err = m.Go(ctx, tx); err != nil {
+			return fmt.Errorf("migration %s: %w", m.Name, err)
+		}
 	}
 	// PRAGMA takes no bound parameters; m.Version is an int we parsed.
 	if _, err = tx.ExecContext(ctx, fmt.Sprintf("PRAGMA user_version = %d", m.Version)); err != nil {

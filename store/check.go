@@ -129,61 +129,7 @@ func check(ctx context.Context, q queryer, rep *CheckReport) error {
 		return err
 	}
 
-	// Revisions: times in order, and the number of values each holds.
-	held := map[int64]int{}
-	if err := eachRow(ctx, q, "SELECT set_rev, count(*) FROM value GROUP BY set_rev", func(r *sql.Rows) error {
-		var rev int64
-		var n int
-		if err := r.Scan(&rev, &n); err != nil {
-			return err
-		}
-		held[rev] = n
-		return nil
-	}); err != nil {
-		return err
-	}
-	made := map[int64]bool{} // revisions that created a body or alias
-	if err := eachRow(ctx, q, "SELECT created_rev FROM body UNION SELECT rev FROM alias", func(r *sql.Rows) error {
-		var rev int64
-		if err := r.Scan(&rev); err != nil {
-			return err
-		}
-		made[rev] = true
-		return nil
-	}); err != nil {
-		return err
-	}
-	revs := map[int64]bool{}
-	var lastTime time.Time
-	var lastID int64
-	if err := eachRow(ctx, q, "SELECT "+revisionColumns+" FROM revision ORDER BY id", func(r *sql.Rows) error {
-		rev, err := scanRevision(r)
-		rep.Revisions++
-		if err != nil {
-			add(Problem{What: err.Error()})
-			return nil
-		}
-		revs[rev.ID] = true
-		if lastID != 0 && rev.Time.Before(lastTime) {
-			add(Problem{Revision: rev.ID, What: fmt.Sprintf("recorded at %s, before revision %d (%s): revision times must not go backwards",
-				rev.Time.Format(time.RFC3339), lastID, lastTime.Format(time.RFC3339))})
-		}
-		lastTime, lastID = rev.Time, rev.ID
-		if n := held[rev.ID]; n != rev.Changes {
-			add(Problem{Revision: rev.ID, What: fmt.Sprintf("says it changed %d values but holds %d: the revision is incomplete or altered", rev.Changes, n)})
-		}
-		if rev.Changes == 0 && !made[rev.ID] {
-			add(Problem{Revision: rev.ID, What: "changed nothing: an empty revision"})
-		}
-		return nil
-	}); err != nil {
-		return err
-	}
-	for rev := range held {
-		if !revs[rev] {
-			add(Problem{Revision: rev, What: fmt.Sprintf("%d values were set by this revision, which does not exist", held[rev])})
-		}
-	}
+	nSQL := len(rep.Problems)
 
 	// Bodies.
 	type bodyInfo struct {
@@ -257,53 +203,172 @@ func check(ctx context.Context, q queryer, rep *CheckReport) error {
 		return err
 	}
 
-	// Values.
-	var id, sup, created int64
-	ps := newParamScanner(&id, &sup, &created)
-	return eachRow(ctx, q, `SELECT v.body_id, ifnull(v.superseded_rev, 0), ifnull(b.created_rev, 0), `+prefixed("v.", valueColumns)+`
-		FROM value v LEFT JOIN body b ON b.id = v.body_id`, func(r *sql.Rows) error {
-		p, err := ps.scan(r)
-		rep.Values++
-		b, ok := bodies[id]
-		pr := Problem{Kind: b.kind, Body: b.name, Parent: b.parent, Key: p.Key, Revision: p.Revision}
+	// States and their values. Problems of revisions (which need the
+	// values each holds) are reported before those of bodies and values.
+	kc, err := loadKeyCodes(ctx, q)
+	if err != nil {
+		return err
+	}
+	held := map[int64]int{} // values set per revision
+	var later []Problem
+	addLater := func(p Problem) { later = append(later, p) }
+	revExists := map[int64]bool{}
+	if err := eachRow(ctx, q, "SELECT id FROM revision", func(r *sql.Rows) error {
+		var id int64
+		if err := r.Scan(&id); err != nil {
+			return err
+		}
+		revExists[id] = true
+		return nil
+	}); err != nil {
+		return err
+	}
+	in := interner{}
+	var vals []entry
+	if err := eachRow(ctx, q, `SELECT s.id, s.body_id, s.set_rev, ifnull(s.superseded_rev, 0), ifnull(b.created_rev, 0), s.data
+		FROM state s LEFT JOIN body b ON b.id = s.body_id`, func(r *sql.Rows) error {
+		var id, body, set, sup, created int64
+		var data sql.RawBytes
+		if err := r.Scan(&id, &body, &set, &sup, &created, &data); err != nil {
+			return err
+		}
+		b, ok := bodies[body]
+		base := Problem{Kind: b.kind, Body: b.name, Parent: b.parent, Revision: set}
 		if !ok {
-			pr.Body = fmt.Sprintf("#%d", id)
+			base.Body = fmt.Sprintf("#%d", body)
+			pr := base
+			pr.What = "values of a body that does not exist"
+			addLater(pr)
 		}
-		if err != nil {
-			pr.What = err.Error()
-			add(pr)
-			return nil
+		var err error
+		if vals, err = kc.decode(vals[:0], data, in); err != nil {
+			pr := base
+			pr.What = fmt.Sprintf("state %d: %v", id, err)
+			addLater(pr)
 		}
-		if !ok {
-			pr.What = "value of a body that does not exist"
-			add(pr)
-		}
-		if err := schema.CheckParam(p); err != nil {
-			pr.What = err.Error()
-			add(pr)
-		}
-		if info, known := schema.LookupKey(p.Key); known && ok && info.Body != b.kind {
-			pr.What = fmt.Sprintf("a %s value stored on a %s", info.Body, b.kind)
-			add(pr)
-		}
-		if p.Status != schema.StatusMeasured && p.Status != schema.StatusAssumed {
-			pr.What = fmt.Sprintf("unknown status %q", p.Status)
-			add(pr)
-		}
-		if sup != 0 && sup <= p.Revision {
+		if sup != 0 && sup <= set {
+			pr := base
 			pr.What = fmt.Sprintf("superseded by revision %d, not after the revision that set it", sup)
-			add(pr)
+			addLater(pr)
 		}
-		if sup != 0 && !revs[sup] {
+		if sup != 0 && !revExists[sup] {
+			pr := base
 			pr.What = fmt.Sprintf("superseded by revision %d, which does not exist", sup)
-			add(pr)
+			addLater(pr)
 		}
-		if ok && created > p.Revision {
-			pr.What = fmt.Sprintf("set before its body was created (revision %d)", created)
-			add(pr)
+		for _, e := range vals {
+			p := e.p
+			if p.Revision == set {
+				held[set]++
+				rep.Values++
+			}
+			pr := base
+			pr.Key, pr.Revision = p.Key, p.Revision
+			if err := schema.CheckParam(p); err != nil {
+				pr.What = err.Error()
+				addLater(pr)
+			}
+			if info, known := schema.LookupKey(p.Key); !known {
+				pr.What = fmt.Sprintf("%v %q", schema.ErrUnknownKey, p.Key)
+				addLater(pr)
+			} else if ok && info.Body != b.kind {
+				pr.What = fmt.Sprintf("a %s value stored on a %s", info.Body, b.kind)
+				addLater(pr)
+			}
+			if p.Revision > set {
+				pr.What = fmt.Sprintf("set by revision %d, after the state that holds it (revision %d)", p.Revision, set)
+				addLater(pr)
+			}
+			if ok && created > p.Revision {
+				pr.What = fmt.Sprintf("set before its body was created (revision %d)", created)
+				addLater(pr)
+			}
 		}
 		return nil
-	})
+	}); err != nil {
+		return err
+	}
+	// The links between bodies and states: each body's current state is
+	// its own and current, no other state of it is current, and each
+	// state's predecessor is the body's state it superseded.
+	links := []struct{ query, what string }{
+		{`SELECT b.id FROM body b LEFT JOIN state s ON s.id = b.state_id
+			WHERE b.state_id IS NOT NULL AND (s.id IS NULL OR s.body_id <> b.id OR s.superseded_rev IS NOT NULL)`,
+			"its current values point at a missing, superseded or foreign state"},
+		{`SELECT s.body_id FROM state s JOIN body b ON b.id = s.body_id
+			WHERE s.superseded_rev IS NULL AND b.state_id IS NOT s.id`,
+			"holds two sets of current values"},
+		{`SELECT s.body_id FROM state s LEFT JOIN state p ON p.id = s.prev_id
+			WHERE s.prev_id IS NOT NULL AND (p.id IS NULL OR p.body_id <> s.body_id OR p.superseded_rev IS NOT s.set_rev)`,
+			"its history is broken: a state's predecessor is missing or was not superseded by it"},
+	}
+	for _, l := range links {
+		if err := eachRow(ctx, q, l.query, func(r *sql.Rows) error {
+			var id int64
+			if err := r.Scan(&id); err != nil {
+				return err
+			}
+			b, ok := bodies[id]
+			pr := Problem{Kind: b.kind, Body: b.name, Parent: b.parent, What: l.what}
+			if !ok {
+				pr.Body = fmt.Sprintf("#%d", id)
+			}
+			addLater(pr)
+			return nil
+		}); err != nil {
+			return err
+		}
+	}
+	// Revisions: times in order, and the number of values each holds.
+	bodyProblems := rep.Problems[nSQL:]
+	rep.Problems = append([]Problem(nil), rep.Problems[:nSQL]...)
+	// Revisions: times in order, and the number of values each holds.
+	made := map[int64]bool{} // revisions that created a body or alias
+	if err := eachRow(ctx, q, "SELECT created_rev FROM body UNION SELECT rev FROM alias", func(r *sql.Rows) error {
+		var rev int64
+		if err := r.Scan(&rev); err != nil {
+			return err
+		}
+		made[rev] = true
+		return nil
+	}); err != nil {
+		return err
+	}
+	revs := map[int64]bool{}
+	var lastTime time.Time
+	var lastID int64
+	if err := eachRow(ctx, q, "SELECT "+revisionColumns+" FROM revision ORDER BY id", func(r *sql.Rows) error {
+		rev, err := scanRevision(r)
+		rep.Revisions++
+		if err != nil {
+			add(Problem{What: err.Error()})
+			return nil
+		}
+		revs[rev.ID] = true
+		if lastID != 0 && rev.Time.Before(lastTime) {
+			add(Problem{Revision: rev.ID, What: fmt.Sprintf("recorded at %s, before revision %d (%s): revision times must not go backwards",
+				rev.Time.Format(time.RFC3339), lastID, lastTime.Format(time.RFC3339))})
+		}
+		lastTime, lastID = rev.Time, rev.ID
+		if n := held[rev.ID]; n != rev.Changes {
+			add(Problem{Revision: rev.ID, What: fmt.Sprintf("says it changed %d values but holds %d: the revision is incomplete or altered", rev.Changes, n)})
+		}
+		if rev.Changes == 0 && !made[rev.ID] {
+			add(Problem{Revision: rev.ID, What: "changed nothing: an empty revision"})
+		}
+		return nil
+	}); err != nil {
+		return err
+	}
+	for rev := range held {
+		if !revs[rev] {
+			add(Problem{Revision: rev, What: fmt.Sprintf("%d values were set by this revision, which does not exist", held[rev])})
+		}
+	}
+
+	rep.Problems = append(rep.Problems, bodyProblems...)
+	rep.Problems = append(rep.Problems, later...)
+	return nil
 }
 
 func prefixed(prefix, cols string) string {

@@ -89,6 +89,15 @@ func TestFixtureV1OpensAndKeepsEverything(t *testing.T) {
 	if old := moonOf(t, mustSnapshot(t, s, 1), "Aster", "Test Giant").Params["mass"]; old.Value != 1e22 {
 		t.Errorf("Aster mass at revision 1 = %+v", old)
 	}
+	// History survives the change of storage: the superseded mass and the
+	// revision that replaced it.
+	h, err := s.History(ctx, "Aster", "Test Giant", "mass")
+	if err != nil || len(h) != 2 || h[0].Param.Value != 1e22 || h[0].SupersededBy != 2 || h[1].Param.Value != 1.1e22 || h[1].SupersededBy != 0 {
+		t.Errorf("history of Aster mass after upgrade = %+v, %v", h, err)
+	}
+	if d, err := s.Diff(ctx, 1, 2); err != nil || len(d) == 0 {
+		t.Errorf("diff 1 2 after upgrade = %+v, %v", d, err)
+	}
 	rep, err := s.Check(ctx)
 	if err != nil || !rep.OK() {
 		t.Errorf("Check = %v, %v", rep, err)

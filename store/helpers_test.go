@@ -135,3 +135,40 @@ func sortParams(ps []schema.Param) []schema.Param {
 	}
 	return ps
 }
+
+// valuesPerRevision counts the values each revision set, from the encoded
+// states (a value carried into a later state counts once, for the revision
+// that set it).
+func valuesPerRevision(tb testing.TB, s *Store) map[int64]int {
+	tb.Helper()
+	kc, err := loadKeyCodes(context.Background(), s.db)
+	if err != nil {
+		tb.Fatal(err)
+	}
+	rows, err := s.db.Query("SELECT set_rev, data FROM state")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	defer rows.Close()
+	held := map[int64]int{}
+	for rows.Next() {
+		var set int64
+		var data []byte
+		if err := rows.Scan(&set, &data); err != nil {
+			tb.Fatal(err)
+		}
+		es, err := kc.decode(nil, data, interner{})
+		if err != nil {
+			tb.Fatal(err)
+		}
+		for _, e := range es {
+			if e.p.Revision == set {
+				held[set]++
+			}
+		}
+	}
+	if err := rows.Err(); err != nil {
+		tb.Fatal(err)
+	}
+	return held
+}

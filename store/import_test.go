@@ -75,7 +75,7 @@ func TestImportHappyPath(t *testing.T) {
 func TestImportDuplicateAndUnchanged(t *testing.T) {
 	s := memStore(t)
 	mustImport(t, s, firstFile())
-	before := countRows(t, s, "value")
+	before := countRows(t, s, "state")
 
 	dup := mustImport(t, s, firstFile())
 	if dup.Duplicate == nil || dup.Duplicate.ID != 1 || dup.Revision != nil {
@@ -91,7 +91,7 @@ func TestImportDuplicateAndUnchanged(t *testing.T) {
 	if n := countRows(t, s, "revision"); n != 1 {
 		t.Errorf("%d revisions, want 1", n)
 	}
-	if n := countRows(t, s, "value"); n != before {
+	if n := countRows(t, s, "state"); n != before {
 		t.Errorf("%d value rows, want %d", n, before)
 	}
 }
@@ -154,7 +154,7 @@ func TestImportAllOrNothing(t *testing.T) {
 			s := memStore(t)
 			mustImport(t, s, firstFile())
 			want := mustSnapshot(t, s, 0).ContentHash
-			counts := [3]int{countRows(t, s, "revision"), countRows(t, s, "body"), countRows(t, s, "value")}
+			counts := [3]int{countRows(t, s, "revision"), countRows(t, s, "body"), countRows(t, s, "state")}
 			tt.bad.Row = 3
 			req := ImportRequest{File: "bad.csv", SHA256: sum("bad"), Records: []schema.Record{
 				rec("Aster", "Test Giant", "", p("mass", 9e21)),            // a change…
@@ -168,8 +168,8 @@ func TestImportAllOrNothing(t *testing.T) {
 			if got := mustSnapshot(t, s, 0).ContentHash; got != want {
 				t.Error("catalog content changed after a failed import")
 			}
-			if got := [3]int{countRows(t, s, "revision"), countRows(t, s, "body"), countRows(t, s, "value")}; got != counts {
-				t.Errorf("rows (revision, body, value) = %v after failed import, want %v", got, counts)
+			if got := [3]int{countRows(t, s, "revision"), countRows(t, s, "body"), countRows(t, s, "state")}; got != counts {
+				t.Errorf("rows (revision, body, state) = %v after failed import, want %v", got, counts)
 			}
 			// The file was not recorded, so it can be imported once fixed.
 			req.Records = req.Records[:2]
@@ -234,9 +234,9 @@ func TestImportPlanetValueRepeatedInRequest(t *testing.T) {
 				t.Errorf("planet_mass = %g, want %g", got, tt.wantValue)
 			}
 			var n int
-			s.db.QueryRow("SELECT count(*) FROM value WHERE key = 'planet_mass' AND superseded_rev IS NULL").Scan(&n)
+			s.db.QueryRow("SELECT count(*) FROM state s JOIN body b ON b.id = s.body_id WHERE b.kind = 'planet' AND s.superseded_rev IS NULL").Scan(&n)
 			if n != 1 {
-				t.Errorf("%d current planet_mass rows, want 1", n)
+				t.Errorf("%d current planet states, want 1", n)
 			}
 		})
 	}

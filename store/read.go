@@ -200,20 +200,31 @@ func loadBodies(ctx context.Context, q queryer, rev int64) (map[int64]*snapBody,
 // eachValueAt calls f for every value current at revision rev, without
 // holding them all.
 func eachValueAt(ctx context.Context, q queryer, rev int64, f func(bodyID int64, p schema.Param)) error {
-	rows, err := q.QueryContext(ctx, "SELECT body_id, "+valueColumns+
-		" FROM value WHERE set_rev <= ?1 AND (superseded_rev IS NULL OR superseded_rev > ?1)", rev)
+	kc, err := loadKeyCodes(ctx, q)
+	if err != nil {
+		return err
+	}
+	rows, err := q.QueryContext(ctx, "SELECT body_id, data FROM state WHERE set_rev <= ?1 AND (superseded_rev IS NULL OR superseded_rev > ?1)", rev)
 	if err != nil {
 		return err
 	}
 	defer rows.Close()
-	var id int64
-	ps := newParamScanner(&id)
+	var (
+		id   int64
+		data sql.RawBytes
+		buf  []entry
+	)
+	in := interner{}
 	for rows.Next() {
-		p, err := ps.scan(rows)
-		if err != nil {
+		if err := rows.Scan(&id, &data); err != nil {
 			return err
 		}
-		f(id, p)
+		if buf, err = kc.decode(buf[:0], data, in); err != nil {
+			return fmt.Errorf("values of body %d: %w", id, err)
+		}
+		for _, e := range buf {
+			f(id, e.p)
+		}
 	}
 	return rows.Err()
 }
@@ -365,8 +376,7 @@ func (s *Store) History(ctx context.Context, moon, planet, key string) ([]Histor
 		if err != nil {
 			return err
 		}
-		ids := []any{m.id, m.planetID, m.starID}
-		keyCond := ""
+		ids := []int64{m.id, m.planetID, m.starID}
 		if key != "" {
 			info, ok := schema.LookupKey(key)
 			if !ok {
@@ -374,31 +384,28 @@ func (s *Store) History(ctx context.Context, moon, planet, key string) ([]Histor
 			}
 			switch info.Body {
 			case schema.KindPlanet:
-				ids = []any{m.planetID, 0, 0}
+				ids = []int64{m.planetID}
 			case schema.KindStar:
-				ids = []any{m.starID, 0, 0}
+				ids = []int64{m.starID}
 			default:
-				ids = []any{m.id, 0, 0}
+				ids = []int64{m.id}
 			}
-			keyCond = " AND key = ?4"
 		}
-		rows, err := q.QueryContext(ctx, "SELECT ifnull(superseded_rev, 0), "+valueColumns+
-			" FROM value WHERE body_id IN (?1, ?2, ?3) AND body_id <> 0"+keyCond+" ORDER BY set_rev, id",
-			ids[0], ids[1], ids[2], key)
+		kc, err := loadKeyCodes(ctx, q)
 		if err != nil {
 			return err
 		}
-		defer rows.Close()
-		for rows.Next() {
-			var e HistoryEntry
-			p, err := scanParam(rows, &e.SupersededBy)
+		for _, id := range ids {
+			if id == 0 {
+				continue
+			}
+			entries, err := bodyHistory(ctx, q, kc, id, key)
 			if err != nil {
 				return err
 			}
-			e.Key, e.Param = p.Key, p
-			out = append(out, e)
+			out = append(out, entries...)
 		}
-		return rows.Err()
+		return nil
 	})
 	if err != nil {
 		return nil, fmt.Errorf("history of %s: %w", moon, err)
@@ -413,6 +420,63 @@ func (s *Store) History(ctx context.Context, moon, planet, key string) ([]Histor
 		}
 		return order[out[i].Key] < order[out[j].Key]
 	})
+	return out, nil
+}
+
+// storedState is one row of the state table, decoded.
+type storedState struct {
+	id, setRev, sup, prev int64
+	vals                  []entry
+}
+
+// bodyHistory returns the values a body's states held (only key's, unless
+// key is ""), each once, with the revision that superseded it. It walks the
+// body's chain of states from the current one back.
+func bodyHistory(ctx context.Context, q queryer, kc *keyCodes, body int64, key string) ([]HistoryEntry, error) {
+	var chain []storedState // newest first
+	var next sql.NullInt64
+	if err := q.QueryRowContext(ctx, "SELECT state_id FROM body WHERE id = ?", body).Scan(&next); err != nil {
+		return nil, err
+	}
+	in := interner{}
+	seen := map[int64]bool{}
+	for next.Valid && next.Int64 != 0 {
+		id := next.Int64
+		if seen[id] {
+			return nil, fmt.Errorf("body %d: its states form a loop at state %d", body, id)
+		}
+		seen[id] = true
+		st := storedState{id: id}
+		var sup sql.NullInt64
+		var data []byte
+		if err := q.QueryRowContext(ctx, "SELECT set_rev, superseded_rev, prev_id, data FROM state WHERE id = ?", id).
+			Scan(&st.setRev, &sup, &next, &data); err != nil {
+			return nil, fmt.Errorf("body %d, state %d: %w", body, id, err)
+		}
+		st.sup = sup.Int64
+		var err error
+		if st.vals, err = kc.decode(nil, data, in); err != nil {
+			return nil, fmt.Errorf("body %d, state %d: %w", body, id, err)
+		}
+		chain = append(chain, st)
+	}
+	var out []HistoryEntry
+	for i := len(chain) - 1; i >= 0; i-- { // oldest first
+		for _, e := range chain[i].vals {
+			if (key != "" && e.p.Key != key) || e.p.Revision != chain[i].setRev && i != len(chain)-1 {
+				continue // another key, or a value carried over from an older state
+			}
+			h := HistoryEntry{Key: e.p.Key, Param: e.p}
+			// Superseded by the first newer state that no longer holds it.
+			for j := i - 1; j >= 0; j-- {
+				if k := find(chain[j].vals, e.code); k < 0 || chain[j].vals[k].p.Revision != e.p.Revision {
+					h.SupersededBy = chain[j].setRev
+					break
+				}
+			}
+			out = append(out, h)
+		}
+	}
 	return out, nil
 }
 
@@ -449,31 +513,46 @@ func (s *Store) Diff(ctx context.Context, a, b int64) ([]ValueChange, error) {
 		type pair struct{ atLo, atHi *schema.Param }
 		touched := map[vk]*pair{}
 		var order []vk
-		rows, err := q.QueryContext(ctx, "SELECT body_id, ifnull(superseded_rev, 0), "+valueColumns+` FROM value
+		kc, err := loadKeyCodes(ctx, q)
+		if err != nil {
+			return err
+		}
+		rows, err := q.QueryContext(ctx, `SELECT body_id, set_rev, ifnull(superseded_rev, 0), data FROM state
 			WHERE (set_rev > ?1 AND set_rev <= ?2) OR (superseded_rev > ?1 AND superseded_rev <= ?2)`, lo, hi)
 		if err != nil {
 			return err
 		}
 		defer rows.Close()
+		in := interner{}
+		var vals []entry
 		for rows.Next() {
-			var id, sup int64
-			p, err := scanParam(rows, &id, &sup)
-			if err != nil {
+			var id, set, sup int64
+			var data sql.RawBytes
+			if err := rows.Scan(&id, &set, &sup, &data); err != nil {
 				return err
 			}
-			k := vk{id, p.Key}
-			pr := touched[k]
-			if pr == nil {
-				pr = &pair{}
-				touched[k] = pr
-				order = append(order, k)
+			atLo := set <= lo // held at lo, superseded by hi
+			if !atLo && sup != 0 && sup <= hi {
+				continue // set and superseded between the two: not visible from either end
 			}
-			switch {
-			case p.Revision <= lo: // held at lo, superseded by hi
-				pr.atLo = &p
-			case sup == 0 || sup > hi: // set after lo, still held at hi
-				pr.atHi = &p
-			} // else set and superseded between the two: not visible from either end
+			if vals, err = kc.decode(vals[:0], data, in); err != nil {
+				return fmt.Errorf("values of body %d: %w", id, err)
+			}
+			for _, e := range vals {
+				k := vk{id, e.p.Key}
+				pr := touched[k]
+				if pr == nil {
+					pr = &pair{}
+					touched[k] = pr
+					order = append(order, k)
+				}
+				p := e.p
+				if atLo {
+					pr.atLo = &p
+				} else {
+					pr.atHi = &p
+				}
+			}
 		}
 		if err := rows.Err(); err != nil {
 			return err

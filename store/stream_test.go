@@ -79,13 +79,13 @@ func TestImportStreamSourceFailureWritesNothing(t *testing.T) {
 	for _, at := range []int{0, streamBatch + 3, len(recs)} { // before, amid and after the records
 		s := memStore(t)
 		mustImport(t, s, firstFile())
-		before := countRows(t, s, "value")
+		before := countRows(t, s, "state")
 		_, err := s.ImportStream(context.Background(), ImportRequest{File: "late.csv", SHA256: sum("late")}, sliceSource(recs, at, bad))
 		var se *SourceError
 		if !errors.Is(err, bad) || !errors.As(err, &se) {
 			t.Errorf("fail at %d: error %v, want the source's error as a *SourceError", at, err)
 		}
-		if n := countRows(t, s, "value"); n != before {
+		if n := countRows(t, s, "state"); n != before {
 			t.Errorf("fail at %d: %d value rows after a failed import, want %d", at, n, before)
 		}
 		if n := countRows(t, s, "revision"); n != 1 {
@@ -116,7 +116,7 @@ func TestImportStreamRecordErrorStopsSource(t *testing.T) {
 	if yielded >= len(recs) {
 		t.Errorf("the source produced all %d records after the writer failed", yielded)
 	}
-	if n := countRows(t, s, "value"); n != 0 {
+	if n := countRows(t, s, "state"); n != 0 {
 		t.Errorf("%d value rows after a failed import, want 0", n)
 	}
 }
@@ -144,7 +144,7 @@ func TestImportStreamDryRunAndRejectsRecords(t *testing.T) {
 	if res.Revision == nil || res.Added == 0 {
 		t.Errorf("dry run result %+v, want a revision that would be made", res)
 	}
-	if n := countRows(t, s, "value"); n != 0 {
+	if n := countRows(t, s, "state"); n != 0 {
 		t.Errorf("dry run wrote %d values", n)
 	}
 	if _, err := s.ImportStream(context.Background(), ImportRequest{File: "b.csv", Records: synthRecords(1, 1, 0)},

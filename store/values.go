@@ -1,17 +1,15 @@
 package store
 
 import (
-	"database/sql"
+	"context"
 	"fmt"
+	"sort"
 
 	"tidesift/schema"
 )
 
-// valueColumns are the columns scanParam reads, in order.
-const valueColumns = "key, value, unc_kind, sigma, plus, minus, min, max, factor, source, status, set_rev"
-
 // normUnc keeps only the fields of the uncertainty's kind, so that equal
-// uncertainties compare equal and stored rows satisfy the table's CHECKs.
+// uncertainties compare equal and encode alike.
 func normUnc(u schema.Uncertainty) schema.Uncertainty {
 	switch u.Kind {
 	case schema.UncSymmetric:
@@ -26,23 +24,6 @@ func normUnc(u schema.Uncertainty) schema.Uncertainty {
 	return schema.Uncertainty{Kind: u.Kind}
 }
 
-// uncArgs returns the sigma, plus, minus, min, max and factor columns: the
-// kind's fields, NULL for the others.
-func uncArgs(u schema.Uncertainty) [6]any {
-	var a [6]any
-	switch u.Kind {
-	case schema.UncSymmetric:
-		a[0] = u.Sigma
-	case schema.UncAsymmetric:
-		a[1], a[2] = u.Plus, u.Minus
-	case schema.UncRange:
-		a[3], a[4] = u.Min, u.Max
-	case schema.UncFactor:
-		a[5] = u.Factor
-	}
-	return a
-}
-
 // sameValue reports whether two parameters say the same thing: value,
 // uncertainty, source and status. The revision does not count.
 func sameValue(a, b schema.Param) bool {
@@ -52,9 +33,8 @@ func sameValue(a, b schema.Param) bool {
 // scanner is a *sql.Row or *sql.Rows.
 type scanner interface{ Scan(dest ...any) error }
 
-// interner shares one string per distinct key, source, status and
-// uncertainty kind among the rows of a scan: a snapshot of a million values
-// holds a few dozen distinct keys and usually few sources.
+// interner shares one string per distinct source among the values of a
+// scan: a snapshot of a million values usually holds few sources.
 type interner map[string]string
 
 func (in interner) get(b []byte) string {
@@ -66,42 +46,69 @@ func (in interner) get(b []byte) string {
 	return s
 }
 
-// scanParam reads valueColumns, preceded by the extra destinations.
-func scanParam(sc scanner, extra ...any) (schema.Param, error) {
-	return newParamScanner(extra...).scan(sc)
+// keyCodes is a catalog's key_name table: the codes that encoded states use
+// for keys.
+type keyCodes struct {
+	byCode map[uint64]string
+	byKey  map[string]uint64
+	next   uint64 // the next free code
 }
 
-// paramScanner reads valueColumns row after row, reusing its buffers and
-// sharing strings through an interner.
-type paramScanner struct {
-	in                                 interner
-	key, kind, source, status          sql.RawBytes
-	value                              float64
-	rev                                int64
-	sigma, plus, minus, lo, hi, factor sql.NullFloat64
-	dest                               []any
-}
-
-// newParamScanner scans into extra (the columns before valueColumns) and then
-// into its own fields.
-func newParamScanner(extra ...any) *paramScanner {
-	ps := &paramScanner{in: interner{}}
-	ps.dest = append(extra, &ps.key, &ps.value, &ps.kind, &ps.sigma, &ps.plus, &ps.minus, &ps.lo, &ps.hi, &ps.factor,
-		&ps.source, &ps.status, &ps.rev)
-	return ps
-}
-
-func (ps *paramScanner) scan(sc scanner) (schema.Param, error) {
-	if err := sc.Scan(ps.dest...); err != nil {
-		return schema.Param{}, err
-	}
-	p := schema.Param{Key: ps.in.get(ps.key), Value: ps.value, Revision: ps.rev,
-		Source: ps.in.get(ps.source), Status: schema.Status(ps.in.get(ps.status))}
-	k, err := schema.ParseUncKind(ps.in.get(ps.kind))
+func loadKeyCodes(ctx context.Context, q queryer) (*keyCodes, error) {
+	kc := &keyCodes{byCode: map[uint64]string{}, byKey: map[string]uint64{}, next: 1}
+	rows, err := q.QueryContext(ctx, "SELECT code, key FROM key_name")
 	if err != nil {
-		return p, fmt.Errorf("stored value %s: %w", p.Key, err)
+		return nil, fmt.Errorf("read key codes: %w", err)
 	}
-	p.Unc = schema.Uncertainty{Kind: k, Sigma: ps.sigma.Float64, Plus: ps.plus.Float64, Minus: ps.minus.Float64,
-		Min: ps.lo.Float64, Max: ps.hi.Float64, Factor: ps.factor.Float64}
-	return p, nil
+	defer rows.Close()
+	for rows.Next() {
+		var c uint64
+		var k string
+		if err := rows.Scan(&c, &k); err != nil {
+			return nil, err
+		}
+		kc.byCode[c], kc.byKey[k] = k, c
+		kc.next = max(kc.next, c+1)
+	}
+	return kc, rows.Err()
+}
+
+// entry is one value of a body's state, with its key's code.
+type entry struct {
+	code uint64
+	p    schema.Param
+}
+
+// decode appends the values of an encoded state to dst, naming their keys.
+func (kc *keyCodes) decode(dst []entry, data []byte, in interner) ([]entry, error) {
+	err := schema.DecodeState(data, in.get, func(code uint64, p schema.Param) error {
+		k, ok := kc.byCode[code]
+		if !ok {
+			return fmt.Errorf("%w: key code %d is not in key_name", schema.ErrBadState, code)
+		}
+		p.Key = k
+		dst = append(dst, entry{code, p})
+		return nil
+	})
+	return dst, err
+}
+
+// encode appends the encoding of a state's entries (sorted here by code).
+func encodeEntries(dst []byte, es []entry, scratch []schema.StateValue) ([]byte, []schema.StateValue) {
+	sort.Slice(es, func(i, j int) bool { return es[i].code < es[j].code })
+	scratch = scratch[:0]
+	for _, e := range es {
+		scratch = append(scratch, schema.StateValue{Code: e.code, Param: e.p})
+	}
+	return schema.AppendState(dst, scratch), scratch
+}
+
+// find returns the index of the entry of key code c, or -1.
+func find(es []entry, c uint64) int {
+	for i := range es {
+		if es[i].code == c {
+			return i
+		}
+	}
+	return -1
 }

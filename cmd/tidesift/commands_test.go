@@ -13,6 +13,8 @@ import (
 
 	"github.com/xuri/excelize/v2"
 	_ "modernc.org/sqlite"
+
+	"tidesift/schema"
 )
 
 // Options → output: each command run against a catalog in t.TempDir().
@@ -359,9 +361,7 @@ func TestCheck(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := db.Exec(`UPDATE value SET value = 1.5 WHERE key = 'eccentricity'`); err != nil {
-		t.Fatal(err)
-	}
+	setStoredValue(t, db, "eccentricity", 1.5)
 	db.Close()
 
 	ta.out.Reset()
@@ -383,6 +383,48 @@ func TestCheck(t *testing.T) {
 	}
 	if doc.OK || len(doc.Problems) != 3 || doc.Problems[0].Key != "eccentricity" {
 		t.Errorf("check json %+v", doc)
+	}
+}
+
+// setStoredValue sets every stored value of key to v, re-encoding the
+// catalog's states (schema/state.go) as the store would not.
+func setStoredValue(t *testing.T, db *sql.DB, key string, v float64) {
+	t.Helper()
+	var code uint64
+	if err := db.QueryRow("SELECT code FROM key_name WHERE key = ?", key).Scan(&code); err != nil {
+		t.Fatal(err)
+	}
+	type state struct {
+		id   int64
+		data []byte
+	}
+	var states []state
+	rows, err := db.Query("SELECT id, data FROM state")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for rows.Next() {
+		var s state
+		if err := rows.Scan(&s.id, &s.data); err != nil {
+			t.Fatal(err)
+		}
+		states = append(states, s)
+	}
+	rows.Close()
+	for _, s := range states {
+		var vals []schema.StateValue
+		if err := schema.DecodeState(s.data, nil, func(c uint64, p schema.Param) error {
+			if c == code {
+				p.Value = v
+			}
+			vals = append(vals, schema.StateValue{Code: c, Param: p})
+			return nil
+		}); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := db.Exec("UPDATE state SET data = ? WHERE id = ?", schema.AppendState(nil, vals), s.id); err != nil {
+			t.Fatal(err)
+		}
 	}
 }
 

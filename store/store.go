@@ -134,6 +134,11 @@ func openFile(ctx context.Context, path string, opt Options) (*Store, error) {
 			return nil, err
 		}
 	}
+	if !exists && !opt.ReadOnly {
+		if err := create(ctx, abs); err != nil {
+			return nil, err
+		}
+	}
 	params := writerParams
 	if opt.ReadOnly {
 		params = append(append([]string(nil), readerParams...), extra...)
@@ -148,6 +153,28 @@ func openFile(ctx context.Context, path string, opt Options) (*Store, error) {
 		return nil, err
 	}
 	return s, nil
+}
+
+// newPageSize is the page size of a catalog this build creates. A bulk import
+// writes every page twice (to the WAL, then into the file at the checkpoint),
+// one system call per page: 16 KiB pages instead of SQLite's 4 KiB made a
+// 1,000,000-row import markedly faster (bench/import.sh). Once a file is in
+// WAL mode its page size is fixed, so older catalogs keep theirs.
+const newPageSize = 16384
+
+// create makes an empty catalog file with newPageSize pages in WAL mode (the
+// writer's DSN sets WAL first, which would fix the page size at 4 KiB).
+func create(ctx context.Context, abs string) error {
+	db, err := sql.Open("sqlite", fileURI(abs, nil))
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	db.SetMaxOpenConns(1)
+	if _, err := db.ExecContext(ctx, fmt.Sprintf("PRAGMA page_size = %d; PRAGMA journal_mode = WAL", newPageSize)); err != nil {
+		return fmt.Errorf("create %s: %w", abs, describe(err))
+	}
+	return db.Close()
 }
 
 // probe refuses a file that is not a catalog this build can read.

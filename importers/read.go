@@ -301,6 +301,9 @@ func number(s string) (float64, error) {
 func (rd *reader) row(cells []string, row int, rec *schema.Record) bool {
 	p := rd.p
 	*rec = schema.Record{File: p.file, Row: row}
+	if len(rd.bodies) >= maxTrackedBodies || len(rd.moons.index) >= maxTrackedMoons {
+		rd.forgetBodies()
+	}
 
 	// Text fields.
 	rawName := rd.textCell(cells, p.text[fieldName])
@@ -523,6 +526,30 @@ func (rd *reader) failPair(kp *keyPlan, row int, cells []string, a, b role, pres
 		msg = fmt.Errorf("%w: %s%s is given but the file has no %s%s column; expected both", ErrUncertaintyForm, key, roleSuffix[have], key, roleSuffix[lack])
 	}
 	rd.fail(row, kp.col[have], key, cell(cells, kp.col[have]), msg, "")
+}
+
+// The file-wide checks between rows (a moon given twice, a planet or star
+// given different values or stars) remember what they have seen for at
+// most these many planets and stars and these many moons; past that they
+// start afresh, so that memory stays flat however long the file. Rows of one
+// planet usually come together, so the window catches nearly every problem
+// with the rows named. The store checks the same rules over the whole
+// import (store.ErrDuplicate, store.ErrConflict), so an import never
+// accepts what the window missed: it is refused then, naming the problem
+// but maybe not the earlier row, and --skip-invalid cannot skip that row.
+// One rule is the reader's alone: a planet given two different stars. Past
+// the window the store takes the second for another planet of that name.
+// (Variables so that tests can make the window tiny.)
+var (
+	maxTrackedBodies = 1 << 15
+	maxTrackedMoons  = 1 << 18
+)
+
+// forgetBodies starts the file-wide checks afresh (see maxTrackedBodies).
+func (rd *reader) forgetBodies() {
+	clear(rd.bodies)
+	rd.moons = newKeySet()
+	rd.lastPlanet = nil
 }
 
 // body returns the state of a planet or star, nil if not seen yet. The last

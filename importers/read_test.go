@@ -444,3 +444,23 @@ func TestTooManyColumns(t *testing.T) {
 		t.Errorf("wide header: %v", err)
 	}
 }
+
+// TestCheckWindowForgets: past the window of maxTrackedBodies, the reader no
+// longer sees a moon given twice far apart (the store refuses it instead);
+// within the window it reports the earlier row.
+func TestCheckWindowForgets(t *testing.T) {
+	file := "name,planet,radius [km]\nA,P1,100\nB,P2,100\nC,P3,100\nA,P1,100\n"
+	read := func() error {
+		_, err := Read("far.csv", strings.NewReader(file), Options{})
+		return err
+	}
+	if err := read(); !errors.Is(err, ErrDuplicateMoon) || !strings.Contains(err.Error(), "row 2") {
+		t.Fatalf("within the window: %v, want the duplicate of row 2", err)
+	}
+	old := maxTrackedBodies
+	maxTrackedBodies = 2
+	defer func() { maxTrackedBodies = old }()
+	if err := read(); err != nil {
+		t.Fatalf("past the window: %v, want the duplicate left to the store", err)
+	}
+}

@@ -10,6 +10,7 @@ import (
 	"hash/maphash"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 
@@ -19,6 +20,13 @@ import (
 // ErrAmbiguous is wrapped by Import and History when a name matches several
 // bodies; the message lists the candidates.
 var ErrAmbiguous = errors.New("ambiguous name")
+
+// ErrConflict is wrapped by Import when records of one request give a star
+// or planet different values for one key.
+var ErrConflict = errors.New("conflicting values for one body")
+
+// ErrDuplicate is wrapped by Import when a request names one moon twice.
+var ErrDuplicate = errors.New("moon given twice")
 
 // ErrNotFound is wrapped by History, Snapshot and Diff for a moon or revision
 // that does not exist.
@@ -35,9 +43,12 @@ var ErrNotFound = errors.New("not found")
 //
 // A file with a SHA-256 imported before is a no-op (Duplicate is set). When
 // no value, body or alias is new or different, nothing is written and
-// Revision is nil. A moon may appear once per request; planet and star
-// values repeated on many rows are compared with what the request itself set
-// (the last one wins; Changes lists the value once).
+// Revision is nil. A moon may appear once per request (ErrDuplicate). A
+// star's or planet's value repeated on many records must be the same value
+// and uncertainty on each (ErrConflict); the first record's source and status
+// stand, and Changes lists the value once. These checks need memory only for
+// the stars and planets in the import's cache, not for the whole request:
+// the rest is read back from the transaction.
 func (s *Store) Import(ctx context.Context, req ImportRequest) (*ImportResult, error) {
 	if s.readOnly {
 		return nil, fmt.Errorf("import %s: %w", req.File, ErrReadOnly)
@@ -217,6 +228,7 @@ type bodyState struct {
 	// order in which each was first given (Changes are listed in it).
 	given    []uint64
 	givenSeq []int
+	givenRow []int // the row that first gave each (0: not known, after the cache was dropped)
 	// queuedAt is the index of the state_id argument in importer.bodies
 	// while the body's row waits there (queuedGen == importer.bodyGen).
 	queuedAt, queuedGen int
@@ -230,14 +242,20 @@ type bodyState struct {
 var hostCacheLimit = 4096 // a variable so that tests can make it tiny
 
 // hostSummary is what must outlive a star's or planet's cache entry, in
-// case a later record names the body again: what the request gave it and
-// what that was counted as.
+// case a later record names the body again: which keys the request gave it
+// and what they were counted as. It is kept small (one per star and planet
+// of a large file): the keys as a bit set of their codes, the changes as a
+// run of Changes.
 type hostSummary struct {
-	given                     []uint64
-	givenSeq                  []int
-	added, changed, unchanged int
-	changes                   []int // indexes in ImportResult.Changes
+	given                     uint64 // bit c: key code c (below 64) was given
+	firstChange               int32  // index in Changes of the first of its changes; -1: none
+	nChanges                  uint8
+	added, changed, unchanged uint8
 }
+
+// maxHostKeys bounds the keys of one star or planet that a summary counts
+// (uint8 counts): far above the registry's few host keys.
+const maxHostKeys = 255
 
 type moonName struct {
 	id   int64
@@ -285,7 +303,7 @@ type importer struct {
 
 	findBody, findPlanets, matchMoon, insBody, insAlias, loadState, hostState *sql.Stmt
 	insBodyBatch, insState, insStateBatch, supersede, supersedeBatch          *sql.Stmt
-	setCurrent, setCurrentBatch, updState, delState, restore, addKey          *sql.Stmt
+	setCurrent, setCurrentBatch, updState, addKey                             *sql.Stmt
 	stmts                                                                     []*sql.Stmt
 
 	// Queued rows, written in batches. Row ids are given here, not by
@@ -307,11 +325,14 @@ type importer struct {
 	planetByID map[int64]*bodyState
 	moonsSeen  map[int64]int // moon id → row that set it
 	cached     int           // stars and planets in the caches
-	evicted    map[int64]*hostSummary
-	moonBody   bodyState // reused for each record's moon
+	evicted    map[int64]hostSummary
+	// evictedWide holds the given key codes of 64 and above of evicted
+	// hosts (none with today's registry).
+	evictedWide map[int64][]uint64
+	moonBody    bodyState // reused for each record's moon
 	// created holds hashes of the stars and planets this import created,
 	// when the catalog had no bodies before it (nil otherwise): see mayExist.
-	created map[uint64]struct{}
+	created *bloom
 }
 
 func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*importer, error) {
@@ -322,7 +343,7 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 	// back when it is cancelled.
 	im := &importer{ctx: context.WithoutCancel(ctx), outer: ctx, tx: tx, rev: rev, omit: omit, dead: map[int]bool{},
 		in: interner{}, stars: map[string]*bodyState{}, planets: map[childKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
-		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, evicted: map[int64]*hostSummary{}}
+		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, evicted: map[int64]hostSummary{}, evictedWide: map[int64][]uint64{}}
 	batchOf := func(row string) string { return strings.TrimSuffix(strings.Repeat(row+", ", batchRows), ", ") }
 	prep := []struct {
 		dst **sql.Stmt
@@ -349,8 +370,6 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.setCurrent, "UPDATE body SET state_id = ?2 WHERE id = ?1"},
 		{&im.setCurrentBatch, "UPDATE body SET state_id = v.column2 FROM (VALUES " + batchOf("(?, ?)") + ") AS v WHERE body.id = v.column1"},
 		{&im.updState, "UPDATE state SET data = ? WHERE id = ?"},
-		{&im.delState, "DELETE FROM state WHERE id = ?"},
-		{&im.restore, "UPDATE state SET superseded_rev = NULL WHERE id = ?"},
 		{&im.addKey, "INSERT INTO key_name (code, key) VALUES (?, ?)"},
 	}
 	for _, p := range prep {
@@ -376,7 +395,7 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		return nil, err
 	}
 	if im.nextBody == 1 {
-		im.created = map[uint64]struct{}{}
+		im.created = new(bloom)
 	}
 	return im, nil
 }
@@ -499,7 +518,7 @@ func (im *importer) record(r *schema.Record) error {
 		}
 		if b == moon {
 			im.setMoon(moon, c, p)
-		} else if err := im.setHost(b, c, p); err != nil {
+		} else if err := im.setHost(b, c, p, r.Row); err != nil {
 			return fmt.Errorf("%s: %w", p.Key, err)
 		}
 	}
@@ -540,14 +559,35 @@ func (im *importer) findOrCreate(kind schema.Kind, parentID int64, parentName, n
 
 // mayExist reports whether a star or planet of that kind and name key could
 // be in the catalog. In a catalog that held no bodies when the import began,
-// only those the import created can be: a set of their hashes then spares a
-// query per new star and planet (a hash collision only costs the query).
+// only those the import created can be: a Bloom filter of them then spares a
+// query per new star and planet (a false positive only costs the query).
 func (im *importer) mayExist(kind schema.Kind, key string) bool {
-	if im.created == nil {
-		return true
+	return im.created == nil || im.created.has(hostHash(kind, key))
+}
+
+// bloom is a Bloom filter of fixed size, so that memory stays flat however
+// many bodies a file creates; with 2²³ bits and three probes, 200,000
+// members give about one false positive in 2,500 lookups (Bloom 1970; the
+// rate (1 − e^(−kn/m))^k is common practice).
+type bloom [1 << 17]uint64
+
+func (f *bloom) probes(h uint64, visit func(word int, bit uint64)) {
+	const bits = uint64(len(f) * 64)
+	h1, h2 := h, h>>32|h<<32|1
+	for i := uint64(0); i < 3; i++ {
+		x := (h1 + i*h2) % bits
+		visit(int(x/64), 1<<(x%64))
 	}
-	_, ok := im.created[hostHash(kind, key)]
-	return ok
+}
+
+func (f *bloom) add(h uint64) {
+	f.probes(h, func(w int, b uint64) { f[w] |= b })
+}
+
+func (f *bloom) has(h uint64) bool {
+	all := true
+	f.probes(h, func(w int, b uint64) { all = all && f[w]&b != 0 })
+	return all
 }
 
 // hostSeed keys hostHash; one per process is enough.
@@ -587,7 +627,7 @@ func (im *importer) create(kind schema.Kind, parentID int64, parentName, name, k
 	im.bodies = append(im.bodies, id, string(kind), display, key, parent, im.rev, nil)
 	im.res.NewBodies++
 	if im.created != nil && kind != schema.KindMoon {
-		im.created[hostHash(kind, key)] = struct{}{}
+		im.created.add(hostHash(kind, key))
 	}
 	return b, nil
 }
@@ -760,7 +800,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			if row > 0 {
 				first = fmt.Sprintf("row %d", row)
 			}
-			return nil, fmt.Errorf("moon %q of planet %q appears twice in one import (first at %s)", c.name, planet.name, first)
+			return nil, fmt.Errorf("%w: moon %q of planet %q appears twice in one import (first at %s)", ErrDuplicate, c.name, planet.name, first)
 		}
 		im.moonsSeen[c.id] = r.Row
 		*m = bodyState{id: c.id, kind: schema.KindMoon, name: c.name, parent: planet.name, queuedAt: -1,
@@ -924,16 +964,28 @@ func (im *importer) loadHost(b *bodyState) error {
 		}
 		b.cur = append([]entry(nil), b.base...)
 	}
-	if s := im.evicted[b.id]; s != nil {
+	if s, ok := im.evicted[b.id]; ok {
 		// Counted when it left the cache: count it again when it leaves
-		// again, with what later records add.
+		// again, with what later records add. Its changes are listed
+		// anew, in the order of this record.
 		delete(im.evicted, b.id)
-		b.given, b.givenSeq = s.given, s.givenSeq
-		im.res.Added -= s.added
-		im.res.Changed -= s.changed
-		im.res.Unchanged -= s.unchanged
-		for _, i := range s.changes {
-			im.dead[i] = true
+		for c := uint64(0); c < 64; c++ {
+			if s.given&(1<<c) != 0 {
+				b.given = append(b.given, c)
+			}
+		}
+		b.given = append(b.given, im.evictedWide[b.id]...)
+		delete(im.evictedWide, b.id)
+		for range b.given {
+			b.givenSeq = append(b.givenSeq, im.nextSeq)
+			b.givenRow = append(b.givenRow, 0)
+			im.nextSeq++
+		}
+		im.res.Added -= int(s.added)
+		im.res.Changed -= int(s.changed)
+		im.res.Unchanged -= int(s.unchanged)
+		for i := range int(s.nChanges) {
+			im.dead[int(s.firstChange)+i] = true
 		}
 	}
 	return nil
@@ -942,17 +994,30 @@ func (im *importer) loadHost(b *bodyState) error {
 // setHost applies one value to a star or planet. Its rows repeat on many
 // records: the last value given wins, and a value given back as it was
 // before this import keeps its original revision.
-func (im *importer) setHost(b *bodyState, c uint64, p schema.Param) error {
+func (im *importer) setHost(b *bodyState, c uint64, p schema.Param, row int) error {
 	if !b.loaded {
 		if err := im.loadHost(b); err != nil {
 			return err
 		}
 	}
-	if slices.Index(b.given, c) < 0 {
-		b.given = append(b.given, c)
-		b.givenSeq = append(b.givenSeq, im.nextSeq)
-		im.nextSeq++
+	if gi := slices.Index(b.given, c); gi >= 0 {
+		// Given by an earlier record: it must say the same. The first
+		// record's source and status stand.
+		have := b.cur[find(b.cur, c)].p
+		if have.Value == p.Value && normUnc(have.Unc) == normUnc(p.Unc) {
+			return nil
+		}
+		first := "an earlier row"
+		if r := b.givenRow[gi]; r > 0 {
+			first = fmt.Sprintf("row %d", r)
+		}
+		return fmt.Errorf("%w: %s %q has %s here but %s on %s; expected the same value on every row (or give it once)",
+			ErrConflict, b.kind, b.name, describeValue(p), describeValue(have), first)
 	}
+	b.given = append(b.given, c)
+	b.givenSeq = append(b.givenSeq, im.nextSeq)
+	b.givenRow = append(b.givenRow, row)
+	im.nextSeq++
 	if j := find(b.base, c); j >= 0 && sameValue(b.base[j].p, p) {
 		p = b.base[j].p
 	}
@@ -964,38 +1029,70 @@ func (im *importer) setHost(b *bodyState, c uint64, p schema.Param) error {
 	return nil
 }
 
+// describeValue writes a value and its uncertainty in SI units for an error
+// message.
+func describeValue(p schema.Param) string {
+	unit := ""
+	if info, ok := schema.LookupKey(p.Key); ok && info.Unit != "" {
+		unit = " " + info.Unit
+	}
+	num := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+	u := p.Unc
+	switch u.Kind {
+	case schema.UncSymmetric:
+		return fmt.Sprintf("%s ± %s%s", num(p.Value), num(u.Sigma), unit)
+	case schema.UncAsymmetric:
+		return fmt.Sprintf("%s +%s −%s%s", num(p.Value), num(u.Plus), num(u.Minus), unit)
+	case schema.UncRange:
+		return fmt.Sprintf("%s [%s, %s]%s", num(p.Value), num(u.Min), num(u.Max), unit)
+	case schema.UncFactor:
+		return fmt.Sprintf("%s ×/÷ %s%s", num(p.Value), num(u.Factor), unit)
+	}
+	return num(p.Value) + unit
+}
+
 // finishHost counts what the request did to a star or planet and writes its
 // state. It returns the summary to keep if the body leaves the cache.
 func (im *importer) finishHost(b *bodyState) (*hostSummary, error) {
 	if !b.loaded || len(b.given) == 0 {
 		return nil, nil
 	}
-	s := &hostSummary{given: b.given, givenSeq: b.givenSeq}
+	if len(b.given) > maxHostKeys {
+		return nil, fmt.Errorf("%s %q: more than %d keys", b.kind, b.name, maxHostKeys)
+	}
+	s := &hostSummary{firstChange: -1}
+	var added, changed, unchanged int
 	for i, c := range b.given {
+		if c < 64 {
+			s.given |= 1 << c
+		}
 		p := b.cur[find(b.cur, c)].p
 		j := find(b.base, c)
 		var old *schema.Param
 		switch {
 		case j < 0:
-			s.added++
+			added++
 		case sameValue(b.base[j].p, p):
-			s.unchanged++
+			unchanged++
 			continue
 		default:
-			s.changed++
+			changed++
 			o := b.base[j].p
 			old = &o
 		}
 		if k := im.addChange(b, old, p, b.givenSeq[i]); k >= 0 {
-			s.changes = append(s.changes, k)
+			if s.firstChange < 0 {
+				s.firstChange = int32(k)
+			}
+			s.nChanges++
 		}
 	}
-	im.res.Added += s.added
-	im.res.Changed += s.changed
-	im.res.Unchanged += s.unchanged
-	changed := s.added+s.changed > 0
+	s.added, s.changed, s.unchanged = uint8(added), uint8(changed), uint8(unchanged)
+	im.res.Added += added
+	im.res.Changed += changed
+	im.res.Unchanged += unchanged
 	switch {
-	case changed && b.ownID != 0:
+	case changed+added > 0 && b.ownID != 0:
 		if err := im.flushAll(); err != nil {
 			return nil, err
 		}
@@ -1004,32 +1101,12 @@ func (im *importer) finishHost(b *bodyState) (*hostSummary, error) {
 		if _, err := im.updState.ExecContext(im.ctx, data, b.ownID); err != nil {
 			return nil, fmt.Errorf("store the values of %s %q: %w", b.kind, b.name, err)
 		}
-	case changed:
+	case changed+added > 0:
 		id, err := im.queueState(b)
 		if err != nil {
 			return nil, err
 		}
 		b.ownID = id
-	case b.ownID != 0:
-		// Later records put back every value it had: undo this import's
-		// state instead of recording a no-op.
-		if err := im.flushAll(); err != nil {
-			return nil, err
-		}
-		if _, err := im.delState.ExecContext(im.ctx, b.ownID); err != nil {
-			return nil, err
-		}
-		var cur any
-		if b.baseID != 0 {
-			if _, err := im.restore.ExecContext(im.ctx, b.baseID); err != nil {
-				return nil, err
-			}
-			cur = b.baseID
-		}
-		if _, err := im.setCurrent.ExecContext(im.ctx, b.id, cur); err != nil {
-			return nil, err
-		}
-		b.ownID = 0
 	}
 	return s, nil
 }
@@ -1069,7 +1146,12 @@ func (im *importer) finishHosts(keep bool) error {
 			return err
 		}
 		if keep && s != nil {
-			im.evicted[b.id] = s
+			im.evicted[b.id] = *s
+			for _, c := range b.given {
+				if c >= 64 {
+					im.evictedWide[b.id] = append(im.evictedWide[b.id], c)
+				}
+			}
 		}
 	}
 	return nil

@@ -3,6 +3,7 @@ package store
 import (
 	"context"
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 
@@ -211,8 +212,6 @@ func TestImportPlanetValueRepeatedInRequest(t *testing.T) {
 	}{
 		{"same on every row", []float64{1.9e27, 1.9e27, 1.9e27}, 1.9e27, 0, 0},
 		{"changed once, repeated", []float64{2e27, 2e27, 2e27}, 2e27, 1, 1},
-		{"last one wins", []float64{2e27, 2.1e27}, 2.1e27, 1, 1},
-		{"changed then put back", []float64{2e27, 1.9e27}, 1.9e27, 0, 0},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -237,6 +236,42 @@ func TestImportPlanetValueRepeatedInRequest(t *testing.T) {
 			s.db.QueryRow("SELECT count(*) FROM state s JOIN body b ON b.id = s.body_id WHERE b.kind = 'planet' AND s.superseded_rev IS NULL").Scan(&n)
 			if n != 1 {
 				t.Errorf("%d current planet states, want 1", n)
+			}
+		})
+	}
+}
+
+// TestImportPlanetValueConflict: records of one request that give a planet
+// different values are refused, naming the first row when it is known.
+func TestImportPlanetValueConflict(t *testing.T) {
+	tests := []struct {
+		name   string
+		values []float64
+	}{
+		{"changed twice", []float64{2e27, 2.1e27}},
+		{"changed then put back", []float64{2e27, 1.9e27}},
+		{"later row differs", []float64{1.9e27, 1.9e27, 2e27}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			s := memStore(t)
+			mustImport(t, s, firstFile())
+			before := mustSnapshot(t, s, 0).ContentHash
+			var recs []schema.Record
+			for i, v := range tt.values {
+				r := rec([]string{"Aster", "Beryl", "Dune"}[i], "Test Giant", "Test Star", p("planet_mass", v))
+				r.Row = i + 2
+				recs = append(recs, r)
+			}
+			_, err := s.Import(context.Background(), ImportRequest{File: "planet.csv", SHA256: sum(tt.name), Records: recs})
+			if !errors.Is(err, ErrConflict) || !strings.Contains(err.Error(), "planet_mass") {
+				t.Fatalf("err = %v, want a planet_mass conflict", err)
+			}
+			if hostCacheLimit > 0 && !strings.Contains(err.Error(), "on row ") {
+				t.Errorf("err = %v, want the earlier row named", err)
+			}
+			if got := mustSnapshot(t, s, 0).ContentHash; got != before {
+				t.Error("a refused import changed the catalog")
 			}
 		})
 	}
@@ -398,5 +433,31 @@ func TestImportOmitOptions(t *testing.T) {
 				t.Errorf("Changes keys %v, added %d, changed %d; want %v, 1, 1", keys, res.Added, res.Changed, tt.want)
 			}
 		})
+	}
+}
+
+// TestBloomFilter: no member is ever missed, and the false-positive rate for
+// 200,000 members stays near the design's (1 − e^(−kn/m))^k ≈ 4·10⁻⁴
+// (k = 3 probes, m = 2²³ bits; the formula is common practice).
+func TestBloomFilter(t *testing.T) {
+	f := new(bloom)
+	const n = 200000
+	for i := range n {
+		f.add(hostHash(schema.KindPlanet, fmt.Sprintf("planet %d", i)))
+	}
+	for i := range n {
+		if !f.has(hostHash(schema.KindPlanet, fmt.Sprintf("planet %d", i))) {
+			t.Fatalf("member %d missed", i)
+		}
+	}
+	fp := 0
+	const tries = 100000
+	for i := range tries {
+		if f.has(hostHash(schema.KindStar, fmt.Sprintf("planet %d", i))) {
+			fp++
+		}
+	}
+	if rate := float64(fp) / tries; rate > 2e-3 {
+		t.Errorf("false-positive rate %g, want about 4e-4", rate)
 	}
 }

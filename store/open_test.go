@@ -38,6 +38,10 @@ func TestOpenFreshCatalog(t *testing.T) {
 	if err := s.db.QueryRow("PRAGMA journal_mode").Scan(&mode); err != nil || mode != "wal" {
 		t.Errorf("journal_mode = %q, %v; want wal", mode, err)
 	}
+	var page int
+	if err := s.db.QueryRow("PRAGMA page_size").Scan(&page); err != nil || page != newPageSize {
+		t.Errorf("page_size = %d, %v; want %d", page, err, newPageSize)
+	}
 }
 
 // fileState is what "unchanged" means for a catalog file.

@@ -165,11 +165,13 @@ func withHostCache(t *testing.T, limit int, f func(t *testing.T)) {
 func TestImportWithDroppedHostCache(t *testing.T) {
 	// The import tests again, with the cache of stars and planets dropped
 	// before every record: values, counts, changes put back and aliases
-	// must come out the same when bodies are read back from the transaction.
+	// must come out the same when bodies are read back from the transaction,
+	// and conflicts between records must still be found.
 	for name, f := range map[string]func(*testing.T){
 		"HappyPath": TestImportHappyPath, "DuplicateAndUnchanged": TestImportDuplicateAndUnchanged,
 		"ChangeMakesHistory": TestImportChangeMakesHistory, "AllOrNothing": TestImportAllOrNothing,
-		"PlanetValueRepeated": TestImportPlanetValueRepeatedInRequest, "Aliases": TestImportAliases,
+		"PlanetValueRepeated": TestImportPlanetValueRepeatedInRequest, "PlanetValueConflict": TestImportPlanetValueConflict,
+		"Aliases":   TestImportAliases,
 		"Ambiguous": TestImportAmbiguous, "MoonTwice": TestImportMoonTwiceInRequest,
 		"StarlessPlanet": TestImportStarlessPlanetFound, "OmitOptions": TestImportOmitOptions,
 	} {
@@ -187,8 +189,11 @@ func TestImportDroppedHostCacheMatchesCached(t *testing.T) {
 			s := memStore(t)
 			for i, seed := range []float64{0, 1, 1, 0} {
 				recs := synthRecords(200, 7, seed)
-				if i == 3 { // planet values changed, then put back within one request
-					for j := range recs[:100] {
+				if i == 3 { // three planets' values changed, on every row that names them
+					for j := range recs {
+						if j%7 >= 3 {
+							continue
+						}
 						for k := range recs[j].Params {
 							if recs[j].Params[k].Key == "planet_mass" {
 								recs[j].Params[k].Value *= 2

@@ -339,7 +339,10 @@ func checkAll(files []string, ropt importers.Options) error {
 func isValidation(err error) bool {
 	var list *importers.ErrorList
 	var pe *importers.ParseError
-	return errors.As(err, &list) || errors.As(err, &pe)
+	// The store's own checks over the whole file (a moon twice, a planet's
+	// rows disagreeing, a name matching several moons) refuse it too.
+	return errors.As(err, &list) || errors.As(err, &pe) ||
+		errors.Is(err, store.ErrConflict) || errors.Is(err, store.ErrDuplicate) || errors.Is(err, store.ErrAmbiguous)
 }
 
 func printImport(w io.Writer, res *importers.Result, out *store.ImportResult, dryRun bool) {

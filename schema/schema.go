@@ -250,7 +250,50 @@ func (c *Catalog) StarOf(moon *Body) string {
 // collapsed to one space, lower case. Two names with equal keys are one body.
 // (Unicode normalisation is applied by the importers before names reach here.)
 func NameKey(name string) string {
+	// Most names are ASCII already in key form: return them as they are
+	// (an import computes a few keys per row).
+	if isKeyForm(name) {
+		return name
+	}
+	if isCollapsed(name, false) {
+		return strings.ToLower(name) // ASCII: no white space to collapse
+	}
 	return strings.ToLower(strings.Join(strings.Fields(name), " "))
+}
+
+// CollapseSpace trims a name and collapses its runs of white space to one
+// space: the display form a body's name is stored in.
+func CollapseSpace(name string) string {
+	if isCollapsed(name, false) {
+		return name
+	}
+	return strings.Join(strings.Fields(name), " ")
+}
+
+// isKeyForm reports whether NameKey(s) == s, for ASCII s (false otherwise).
+func isKeyForm(s string) bool { return isCollapsed(s, true) }
+
+// isCollapsed reports whether s is non-empty ASCII with single spaces between
+// words and none at either end (and, with lower, no upper-case letter).
+func isCollapsed(s string, lower bool) bool {
+	space := true // a leading space is not allowed
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		switch {
+		case c >= 0x80, c == '\t', c == '\n', c == '\v', c == '\f', c == '\r':
+			return false
+		case lower && 'A' <= c && c <= 'Z':
+			return false
+		case c == ' ':
+			if space {
+				return false
+			}
+			space = true
+		default:
+			space = false
+		}
+	}
+	return !space
 }
 
 // SortedKeys returns the keys of a parameter map in the order of Keys.

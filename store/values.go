@@ -1,9 +1,10 @@
 package store
 
 import (
+	"cmp"
 	"context"
 	"fmt"
-	"sort"
+	"slices"
 
 	"tidesift/schema"
 )
@@ -93,12 +94,33 @@ func (kc *keyCodes) decode(dst []entry, data []byte, in interner) ([]entry, erro
 	return dst, err
 }
 
-// encode appends the encoding of a state's entries (sorted here by code).
+// encodeEntries appends the encoding of a state's entries, in code order,
+// using scratch for the sorted values. es is not reordered.
 func encodeEntries(dst []byte, es []entry, scratch []schema.StateValue) ([]byte, []schema.StateValue) {
-	sort.Slice(es, func(i, j int) bool { return es[i].code < es[j].code })
 	scratch = scratch[:0]
-	for _, e := range es {
-		scratch = append(scratch, schema.StateValue{Code: e.code, Param: e.p})
+	// Codes are small (the registry's keys): place each entry at its code
+	// instead of sorting, in the common case.
+	var at [64]uint8 // index+1 of the entry with that code; 0: none
+	small := len(es) < 256
+	for i, e := range es {
+		if !small || e.code >= uint64(len(at)) {
+			small = false
+			break
+		}
+		at[e.code] = uint8(i + 1)
+	}
+	if small {
+		for _, i := range at {
+			if i != 0 {
+				e := es[i-1]
+				scratch = append(scratch, schema.StateValue{Code: e.code, Param: e.p})
+			}
+		}
+	} else {
+		for _, e := range es {
+			scratch = append(scratch, schema.StateValue{Code: e.code, Param: e.p})
+		}
+		slices.SortFunc(scratch, func(a, b schema.StateValue) int { return cmp.Compare(a.Code, b.Code) })
 	}
 	return schema.AppendState(dst, scratch), scratch
 }

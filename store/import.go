@@ -60,9 +60,12 @@ func (s *Store) Import(ctx context.Context, req ImportRequest) (*ImportResult, e
 	var res *ImportResult
 	err = withRetry(ctx, func() error {
 		var err error
-		res, err = s.importTx(ctx, req, sum, func(apply func(*schema.Record, int) error) error {
+		res, err = s.importTx(ctx, req, sum, func(apply func(*prepared, int) error) error {
+			var pr prepared
 			for i := range req.Records {
-				if err := apply(&req.Records[i], i); err != nil {
+				pr = prepared{rec: req.Records[i]}
+				prepare(&pr, false) // the caller's records stay as they are
+				if err := apply(&pr, i); err != nil {
 					return err
 				}
 			}
@@ -90,7 +93,7 @@ func checkSum(req ImportRequest) (string, error) {
 // importTx runs one import transaction; feed hands every record to apply,
 // in order, with its 0-based index.
 func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
-	feed func(apply func(rec *schema.Record, i int) error) error) (res *ImportResult, err error) {
+	feed func(apply func(rec *prepared, i int) error) error) (res *ImportResult, err error) {
 	// The import's rows are written parents first, with ids it hands out
 	// itself under the write lock, so foreign keys hold by construction;
 	// enforcing them costs a lookup per key and row (about a seventh of a
@@ -156,9 +159,9 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
 	}
 	im.omitAdded = req.OmitAdded
 	defer im.close()
-	if err := feed(func(rec *schema.Record, i int) error {
-		if err := im.record(rec); err != nil {
-			return fmt.Errorf("%s: %w", recordPlace(req.File, rec, i), err)
+	if err := feed(func(pr *prepared, i int) error {
+		if err := im.record(pr); err != nil {
+			return fmt.Errorf("%s: %w", recordPlace(req.File, &pr.rec, i), err)
 		}
 		return nil
 	}); err != nil {
@@ -451,57 +454,55 @@ func (im *importer) code(key string) (uint64, error) {
 	return c, nil
 }
 
-func (im *importer) record(r *schema.Record) error {
-	if err := im.outer.Err(); err != nil {
-		return err
+// prepared is a record with the work that needs no catalog done: its
+// values checked and completed, its names' keys and each value's body
+// found. ImportStream prepares records on the reading goroutine, so that
+// this work overlaps the writing.
+type prepared struct {
+	rec                         schema.Record
+	nameKey, planetKey, starKey string
+	// kinds[i] is the body of rec.Params[i] (for the first len(kinds)
+	// values; the rest are looked up again).
+	kinds [24]schema.Kind
+	err   error // the record's own problem, reported when it is applied
+}
+
+// prepare checks and completes a record's values in place (a shallow copy of
+// the caller's record: own says whether its Params may be changed, or must
+// be copied first).
+func prepare(pr *prepared, own bool) {
+	r := &pr.rec
+	pr.nameKey, pr.planetKey, pr.starKey = schema.NameKey(r.Name), schema.NameKey(r.Planet), schema.NameKey(r.Star)
+	if pr.nameKey == "" {
+		pr.err = errors.New("the moon has no name")
+		return
 	}
-	if im.cached > hostCacheLimit {
-		if err := im.dropHosts(); err != nil {
-			return err
-		}
+	if pr.planetKey == "" {
+		pr.err = fmt.Errorf("moon %q has no planet", r.Name)
+		return
 	}
-	if schema.NameKey(r.Name) == "" {
-		return errors.New("the moon has no name")
+	if !own {
+		r.Params = slices.Clone(r.Params)
 	}
-	if schema.NameKey(r.Planet) == "" {
-		return fmt.Errorf("moon %q has no planet", r.Name)
-	}
-	var star *bodyState
-	if schema.NameKey(r.Star) != "" {
-		var err error
-		if star, err = im.star(r.Star); err != nil {
-			return err
-		}
-	}
-	planet, err := im.planet(r.Planet, star)
-	if err != nil {
-		return err
-	}
-	moon, err := im.moon(r, planet)
-	if err != nil {
-		return err
-	}
-	for i, p := range r.Params {
+	for i := range r.Params {
+		p := &r.Params[i]
 		for _, q := range r.Params[:i] {
 			if q.Key == p.Key {
-				return fmt.Errorf("%s is given twice", p.Key)
+				pr.err = fmt.Errorf("%s is given twice", p.Key)
+				return
 			}
 		}
 		info, ok := schema.LookupKey(p.Key)
 		if !ok {
-			return fmt.Errorf("%w %q (want one of the keys of the canonical layout)", schema.ErrUnknownKey, p.Key)
+			pr.err = fmt.Errorf("%w %q (want one of the keys of the canonical layout)", schema.ErrUnknownKey, p.Key)
+			return
 		}
-		var b *bodyState
-		switch info.Body {
-		case schema.KindMoon:
-			b = moon
-		case schema.KindPlanet:
-			b = planet
-		case schema.KindStar:
-			if star == nil {
-				return fmt.Errorf("%s is a value of the star, but the record names no star", p.Key)
-			}
-			b = star
+		if info.Body == schema.KindStar && pr.starKey == "" {
+			pr.err = fmt.Errorf("%s is a value of the star, but the record names no star", p.Key)
+			return
+		}
+		if i < len(pr.kinds) {
+			pr.kinds[i] = info.Body
 		}
 		if p.Source == "" {
 			p.Source = r.Source
@@ -510,13 +511,63 @@ func (im *importer) record(r *schema.Record) error {
 			p.Status = schema.StatusMeasured
 		}
 		if p.Status != schema.StatusMeasured && p.Status != schema.StatusAssumed {
-			return fmt.Errorf("%s: unknown status %q (want %q or %q)", p.Key, p.Status, schema.StatusMeasured, schema.StatusAssumed)
+			pr.err = fmt.Errorf("%s: unknown status %q (want %q or %q)", p.Key, p.Status, schema.StatusMeasured, schema.StatusAssumed)
+			return
 		}
 		p.Unc = normUnc(p.Unc)
-		p.Revision = im.rev
-		if err := schema.CheckParam(p); err != nil {
+		if err := schema.CheckParam(*p); err != nil {
+			pr.err = err
+			return
+		}
+	}
+}
+
+// record applies one prepared record.
+func (im *importer) record(pr *prepared) error {
+	if err := im.outer.Err(); err != nil {
+		return err
+	}
+	if pr.err != nil {
+		return pr.err
+	}
+	if im.cached > hostCacheLimit {
+		if err := im.dropHosts(); err != nil {
 			return err
 		}
+	}
+	r := &pr.rec
+	var star *bodyState
+	if pr.starKey != "" {
+		var err error
+		if star, err = im.star(r.Star, pr.starKey); err != nil {
+			return err
+		}
+	}
+	planet, err := im.planet(r.Planet, pr.planetKey, star)
+	if err != nil {
+		return err
+	}
+	moon, err := im.moon(r, planet)
+	if err != nil {
+		return err
+	}
+	for i := range r.Params {
+		p := r.Params[i]
+		var kind schema.Kind
+		if i < len(pr.kinds) {
+			kind = pr.kinds[i]
+		} else {
+			info, _ := schema.LookupKey(p.Key) // checked by prepare
+			kind = info.Body
+		}
+		b := moon
+		switch kind {
+		case schema.KindPlanet:
+			b = planet
+		case schema.KindStar:
+			b = star
+		}
+		p.Revision = im.rev
 		c, err := im.code(p.Key)
 		if err != nil {
 			return err
@@ -530,8 +581,7 @@ func (im *importer) record(r *schema.Record) error {
 	return im.finishMoon(moon)
 }
 
-func (im *importer) star(name string) (*bodyState, error) {
-	key := schema.NameKey(name)
+func (im *importer) star(name, key string) (*bodyState, error) {
 	if b := im.stars[key]; b != nil {
 		return b, nil
 	}
@@ -637,8 +687,7 @@ func (im *importer) create(kind schema.Kind, parentID int64, parentName, name, k
 	return b, nil
 }
 
-func (im *importer) planet(name string, star *bodyState) (*bodyState, error) {
-	key := schema.NameKey(name)
+func (im *importer) planet(name, key string, star *bodyState) (*bodyState, error) {
 	if star != nil {
 		pk := childKey{star.id, key}
 		if b := im.planets[pk]; b != nil {

@@ -12,8 +12,9 @@ import (
 // record in order and returns the error that stopped it (nil at the end of
 // the input). The *Record may be reused after yield returns: its fields are
 // copied (a shallow copy, so its slices must not be reused), as
-// importers.ReadStream allows. When yield returns an error the source must
-// stop and return it.
+// importers.ReadStream allows, and ImportStream may complete the values of
+// its Params in place (a default source and status). When yield returns an
+// error the source must stop and return it.
 //
 // ImportStream may call the source again from the start when another process
 // held the catalog and the transaction is retried: it must then produce the
@@ -59,7 +60,7 @@ func (s *Store) ImportStream(ctx context.Context, req ImportRequest, records Rec
 	var res *ImportResult
 	err = withRetry(ctx, func() error {
 		var err error
-		res, err = s.importTx(ctx, req, sum, func(apply func(*schema.Record, int) error) error {
+		res, err = s.importTx(ctx, req, sum, func(apply func(*prepared, int) error) error {
 			return pipe(ctx, records, apply)
 		})
 		return err
@@ -70,19 +71,19 @@ func (s *Store) ImportStream(ctx context.Context, req ImportRequest, records Rec
 	return res, nil
 }
 
-// pipe runs the source on a goroutine, hands its records over in batches and
-// applies them on this one. It returns the first error of either side, after
-// the source has stopped.
-func pipe(ctx context.Context, records RecordSource, apply func(*schema.Record, int) error) error {
-	full := make(chan []schema.Record, streamDepth)
-	free := make(chan []schema.Record, streamDepth+2)
+// pipe runs the source on a goroutine, which also prepares each record (see
+// prepare), hands them over in batches and applies them on this one. It
+// returns the first error of either side, after the source has stopped.
+func pipe(ctx context.Context, records RecordSource, apply func(*prepared, int) error) error {
+	full := make(chan []prepared, streamDepth)
+	free := make(chan []prepared, streamDepth+2)
 	stop := make(chan struct{})
 	var srcErr error
 	done := make(chan struct{})
 	go func() {
 		defer close(done)
 		defer close(full)
-		buf := make([]schema.Record, 0, streamBatch)
+		buf := make([]prepared, 0, streamBatch)
 		send := func() error {
 			select {
 			case full <- buf:
@@ -95,12 +96,15 @@ func pipe(ctx context.Context, records RecordSource, apply func(*schema.Record, 
 			case buf = <-free:
 				buf = buf[:0]
 			default:
-				buf = make([]schema.Record, 0, streamBatch)
+				buf = make([]prepared, 0, streamBatch)
 			}
 			return nil
 		}
 		srcErr = records(func(r *schema.Record) error {
-			buf = append(buf, *r)
+			buf = append(buf, prepared{rec: *r})
+			// The source does not reuse a record's slices (see
+			// RecordSource), so its values may be completed in place.
+			prepare(&buf[len(buf)-1], true)
 			if len(buf) == streamBatch {
 				return send()
 			}

@@ -41,6 +41,10 @@ type ImportRequest struct {
 	// OmitAdded lists only changed values in ImportResult.Changes, not
 	// added ones (which a first import of a large file is all of).
 	OmitAdded bool
+	// MaxChanges, when positive, keeps at most this many entries in
+	// ImportResult.Changes (the first found), so that a large update holds
+	// its counts but not a million ValueChanges.
+	MaxChanges int
 }
 
 // ImportResult says what an import did.
@@ -54,7 +58,7 @@ type ImportResult struct {
 	Unchanged  int              // values identical to the current ones (each body and key counted once)
 	NewBodies  int              // stars, planets and moons created
 	NewAliases int              // moon aliases recorded
-	Changes    []ValueChange    // every added or changed value, in request order (unless OmitChanges)
+	Changes    []ValueChange    // every added or changed value, in request order (unless OmitChanges; see MaxChanges)
 }
 
 // ValueChange is one value added, changed or removed.

@@ -158,6 +158,7 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
 		return nil, err
 	}
 	im.omitAdded = req.OmitAdded
+	im.maxChanges = req.MaxChanges
 	defer im.close()
 	if err := feed(func(pr *prepared, i int) error {
 		if err := im.record(pr); err != nil {
@@ -302,6 +303,7 @@ type importer struct {
 	rev       int64
 	omit      bool
 	omitAdded bool
+	maxChanges int
 	res       ImportResult
 	seq       []int        // per Changes entry: the order it was first given in
 	nextSeq   int          // the next such order
@@ -1329,7 +1331,7 @@ func (im *importer) flush() error {
 // addChange records a change at request order seq and returns its index in
 // Changes (-1 when changes are omitted).
 func (im *importer) addChange(b *bodyState, old *schema.Param, p schema.Param, seq int) int {
-	if im.omit || (old == nil && im.omitAdded) {
+	if im.omit || (old == nil && im.omitAdded) || (im.maxChanges > 0 && len(im.res.Changes) >= im.maxChanges) {
 		return -1
 	}
 	np := p

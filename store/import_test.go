@@ -414,17 +414,19 @@ func TestImportOmitOptions(t *testing.T) {
 		name      string
 		omitAll   bool
 		omitAdded bool
+		max       int
 		want      []string // keys listed in Changes
 	}{
-		{"everything", false, false, []string{"mass", "period"}},
-		{"changed only", false, true, []string{"mass"}},
-		{"nothing", true, false, nil},
+		{"everything", false, false, 0, []string{"mass", "period"}},
+		{"changed only", false, true, 0, []string{"mass"}},
+		{"nothing", true, false, 0, nil},
+		{"at most one", false, false, 1, []string{"mass"}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			s := memStore(t)
 			mustImport(t, s, firstFile())
-			res := mustImport(t, s, ImportRequest{File: "b.csv", Records: recs, OmitChanges: tt.omitAll, OmitAdded: tt.omitAdded})
+			res := mustImport(t, s, ImportRequest{File: "b.csv", Records: recs, OmitChanges: tt.omitAll, OmitAdded: tt.omitAdded, MaxChanges: tt.max})
 			var keys []string
 			for _, c := range res.Changes {
 				keys = append(keys, c.Key)

@@ -4,6 +4,7 @@ import (
 	"database/sql"
 	"encoding/csv"
 	"encoding/json"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -425,6 +426,29 @@ func setStoredValue(t *testing.T, db *sql.DB, key string, v float64) {
 		if _, err := db.Exec("UPDATE state SET data = ? WHERE id = ?", schema.AppendState(nil, vals), s.id); err != nil {
 			t.Fatal(err)
 		}
+	}
+}
+
+// TestImportListsFirstChanges: a large update lists the first changed
+// values and counts the rest, pointing at diff for all of them.
+func TestImportListsFirstChanges(t *testing.T) {
+	ta := newTestApp(t)
+	n := listedChanges + 7
+	var first, second strings.Builder
+	first.WriteString("name,planet,radius [km]\n")
+	second.WriteString("name,planet,radius [km]\n")
+	for i := range n {
+		fmt.Fprintf(&first, "M%d,P,%d\n", i, 100+i)
+		fmt.Fprintf(&second, "M%d,P,%d\n", i, 200+i)
+	}
+	dir := t.TempDir()
+	mustRun(t, ta, "import", writeFile(t, dir, "first.csv", first.String()))
+	out := mustRun(t, ta, "import", writeFile(t, dir, "second.csv", second.String()))
+	if got := strings.Count(out, "  changed "); got != listedChanges {
+		t.Errorf("%d changes listed, want %d", got, listedChanges)
+	}
+	if !strings.Contains(out, "… and 7 more changed values; tidesift diff 1 2 lists them all") {
+		t.Errorf("no count of the rest in:\n%s", out[len(out)-200:])
 	}
 }
 

@@ -153,7 +153,7 @@ func importFile(ctx context.Context, opts *importOptions, ropt importers.Options
 	}
 	var res *importers.Result
 	rows := 0
-	out, err := st.ImportStream(ctx, store.ImportRequest{File: path, SHA256: sum, Note: opts.Note, DryRun: opts.DryRun, OmitAdded: true},
+	out, err := st.ImportStream(ctx, store.ImportRequest{File: path, SHA256: sum, Note: opts.Note, DryRun: opts.DryRun, OmitAdded: true, MaxChanges: listedChanges},
 		func(yield func(*schema.Record) error) error {
 			res, rows = nil, 0
 			f, err := os.Open(path)
@@ -366,13 +366,26 @@ func printImportRows(w io.Writer, res *importers.Result, rows int, out *store.Im
 		fmt.Fprintf(w, "%s: revision %d: %s; %s added, %d changed, %d unchanged; %d new bodies\n",
 			res.File, out.Revision.ID, plural(rows, "row"), plural(out.Added, "value"), out.Changed, out.Unchanged, out.NewBodies)
 	}
+	listed := 0
 	for _, c := range out.Changes {
 		if c.Old == nil || c.New == nil {
 			continue // additions are counted, not listed
 		}
 		fmt.Fprintf(w, "  changed %s: %s → %s\n", bodyLabel(c), keyedText(c.Key, *c.Old), keyedText(c.Key, *c.New))
+		listed++
+	}
+	if more := out.Changed - listed; more > 0 && listed > 0 {
+		how := "tidesift diff lists them all"
+		if out.Revision != nil && !dryRun {
+			how = fmt.Sprintf("tidesift diff %d %d lists them all", out.Revision.ID-1, out.Revision.ID)
+		}
+		fmt.Fprintf(w, "  … and %s; %s\n", plural(more, "more changed value"), how)
 	}
 }
+
+// listedChanges is how many changed values an import lists; the rest are
+// counted (a large update would otherwise print, and hold, every one).
+const listedChanges = 200
 
 // bodyLabel names the body and key of a change, e.g. "Varkesh (Velmira b) k2_q".
 func bodyLabel(c store.ValueChange) string {

@@ -2,6 +2,8 @@
 # Import benchmark: an invented canonical CSV of N rows imported by
 # `tidesift import` (parsing, unit conversion, validation, one revision),
 # beside the sqlite3 shell's `.import` of the same file into a plain table.
+# Then an update: the same moons with every value changed (gencsv -seed 2)
+# imported into that catalog, each value superseding the one before.
 # Prints wall time, peak resident memory and CPU time (user + system; GNU
 # time) for each. Our import reads and writes on two goroutines, so its CPU
 # time may exceed its wall time.
@@ -25,6 +27,8 @@ printf '%-9s %-22s %9s %9s %9s\n' rows what wall_s rss_MiB cpu_s
 for n in ${SIZES:-100000 1000000}; do
 	csv="$out/moons-$n.csv"
 	[ -s "$csv" ] || "$out/gencsv" -n "$n" -o "$csv"
+	upd="$out/moons-$n-seed2.csv"
+	[ -s "$upd" ] || "$out/gencsv" -n "$n" -seed 2 -o "$upd"
 
 	rm -f "$out/import-$n.db" "$out/import-$n.db-wal" "$out/import-$n.db-shm"
 	timed "tidesift import" env TIDESIFT_DB="$out/import-$n.db" "$out/tidesift" import "$csv"
@@ -35,4 +39,7 @@ for n in ${SIZES:-100000 1000000}; do
 	timed "sqlite3 .import" sqlite3 "$out/sqlite-$n.db" ".import --csv $csv moons"
 	printf '%-9s %-22s %9s %9s %9s\n' "$n" "sqlite3 .import" "$WALL" "$RSS" "$CPU"
 	awk -v a="$ours" -v b="$WALL" 'BEGIN { if (b > 0) printf "%-9s %-22s %9.2f\n", "", "ratio (ours/shell)", a / b }'
+
+	timed "tidesift update" env TIDESIFT_DB="$out/import-$n.db" "$out/tidesift" import "$upd"
+	printf '%-9s %-22s %9s %9s %9s\n' "$n" "tidesift update" "$WALL" "$RSS" "$CPU"
 done

@@ -214,9 +214,9 @@ type bodyState struct {
 	name   string // display name
 	parent string // display name of the parent, "" for none
 	isNew  bool   // created by this import, and cached since
-	// moons are the names and aliases (name keys) of the moons this import
-	// gave a planet it created: nothing in the database can match under
-	// it, so they are looked up here instead.
+	// moons are the names and aliases (name keys) of the moons records of
+	// this import named under a planet while it was cached: a second record
+	// naming one is found here without writing the queues first.
 	moons map[string]moonName
 
 	// The body's values. A star's or planet's are kept across the records
@@ -233,9 +233,9 @@ type bodyState struct {
 	given    []uint64
 	givenSeq []int
 	givenRow []int // the row that first gave each (0: not known, after the cache was dropped)
-	// queuedAt is the index of the state_id argument in importer.bodies
+	// queued is 1 + the index of the state_id argument in importer.bodies
 	// while the body's row waits there (queuedGen == importer.bodyGen).
-	queuedAt, queuedGen int
+	queued, queuedGen int
 }
 
 // hostCacheLimit bounds how many stars and planets an import keeps cached
@@ -333,7 +333,11 @@ type importer struct {
 	planets    map[childKey]*bodyState
 	anyPlanet  map[string]*bodyState // planets looked up without a star
 	planetByID map[int64]*bodyState
-	moonsSeen  map[int64]int // moon id → row that set it
+	// seen is the set of moons that existed before this import and that
+	// a record named (by id: ids are dense, so a bit set is small and
+	// exact); seenRow keeps the row for the most recent of them.
+	seen    bitset
+	seenRow map[int64]int
 	cached     int           // stars and planets in the caches
 	evicted    map[int64]hostSummary
 	// evictedWide holds the given key codes of 64 and above of evicted
@@ -353,7 +357,7 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 	// back when it is cancelled.
 	im := &importer{ctx: context.WithoutCancel(ctx), outer: ctx, tx: tx, rev: rev, omit: omit, dead: map[int]bool{},
 		in: interner{}, stars: map[string]*bodyState{}, planets: map[childKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
-		planetByID: map[int64]*bodyState{}, moonsSeen: map[int64]int{}, evicted: map[int64]hostSummary{}, evictedWide: map[int64][]uint64{}}
+		planetByID: map[int64]*bodyState{}, seenRow: map[int64]int{}, evicted: map[int64]hostSummary{}, evictedWide: map[int64][]uint64{}}
 	batchOf := func(row string) string { return strings.TrimSuffix(strings.Repeat(row+", ", batchRows), ", ") }
 	prep := []struct {
 		dst **sql.Stmt
@@ -647,6 +651,26 @@ func (f *bloom) has(h uint64) bool {
 	return all
 }
 
+// maxSeenRows bounds importer.seenRow: past it, a duplicate's message says
+// "an earlier row" instead of its number.
+const maxSeenRows = 1 << 16
+
+// bitset is a set of non-negative ids, one bit each.
+type bitset []uint64
+
+func (s *bitset) add(id int64) {
+	w := int(id / 64)
+	if w >= len(*s) {
+		*s = append(*s, make([]uint64, w+1-len(*s))...)
+	}
+	(*s)[w] |= 1 << (id % 64)
+}
+
+func (s bitset) has(id int64) bool {
+	w := int(id / 64)
+	return w < len(s) && s[w]&(1<<(id%64)) != 0
+}
+
 // hostSeed keys hostHash; one per process is enough.
 var hostSeed = maphash.MakeSeed()
 
@@ -680,7 +704,7 @@ func (im *importer) create(kind schema.Kind, parentID int64, parentName, name, k
 		}
 	}
 	*b = bodyState{id: id, kind: kind, name: display, parent: parentName, isNew: true, loaded: true,
-		queuedAt: len(im.bodies) + bodyArgs - 1, queuedGen: im.bodyGen, base: b.base[:0], cur: b.cur[:0]}
+		queued: len(im.bodies) + bodyArgs, queuedGen: im.bodyGen, base: b.base[:0], cur: b.cur[:0]}
 	im.bodies = append(im.bodies, id, string(kind), display, key, parent, im.rev, nil)
 	im.res.NewBodies++
 	if im.created != nil && kind != schema.KindMoon {
@@ -790,47 +814,38 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		}
 		return false
 	}
-	if !planet.isNew {
-		if err := im.flushBodies(); err != nil {
+	// Moons this import gave the planet while it was cached are in
+	// planet.moons (still queued, perhaps); the catalog holds the rest, so
+	// there is no need to write the queue first.
+	for _, n := range names {
+		k := schema.NameKey(n)
+		if k == "" {
+			continue
+		}
+		keys = append(keys, k)
+		if c, ok := planet.moons[k]; ok && !seen(c.id) {
+			cands = append(cands, cand{id: c.id, name: c.name, rev: im.rev, row: c.row})
+		}
+		if planet.isNew {
+			continue // nothing in the catalog can match under it
+		}
+		rows, err := im.matchMoon.QueryContext(im.ctx, planet.id, k)
+		if err != nil {
 			return nil, err
 		}
-		for _, n := range names {
-			k := schema.NameKey(n)
-			if k == "" {
-				continue
-			}
-			keys = append(keys, k)
-			rows, err := im.matchMoon.QueryContext(im.ctx, planet.id, k)
-			if err != nil {
+		for rows.Next() {
+			var c cand
+			if err := rows.Scan(&c.id, &c.name, &c.rev, &c.stateID); err != nil {
+				rows.Close()
 				return nil, err
 			}
-			for rows.Next() {
-				var c cand
-				if err := rows.Scan(&c.id, &c.name, &c.rev, &c.stateID); err != nil {
-					rows.Close()
-					return nil, err
-				}
-				if !seen(c.id) {
-					cands = append(cands, c)
-				}
-			}
-			rows.Close()
-			if err := rows.Err(); err != nil {
-				return nil, err
+			if !seen(c.id) {
+				cands = append(cands, c)
 			}
 		}
-	} else {
-		// Nothing in the database can match under a planet this import
-		// created; only moons created by earlier records can.
-		for _, n := range names {
-			k := schema.NameKey(n)
-			if k == "" {
-				continue
-			}
-			keys = append(keys, k)
-			if c, ok := planet.moons[k]; ok && !seen(c.id) {
-				cands = append(cands, cand{id: c.id, name: c.name, rev: im.rev, row: c.row})
-			}
+		rows.Close()
+		if err := rows.Err(); err != nil {
+			return nil, err
 		}
 	}
 	m := &im.moonBody
@@ -839,17 +854,15 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		if _, err := im.create(schema.KindMoon, planet.id, planet.name, r.Name, keys[0], m); err != nil {
 			return nil, err
 		}
-		if !planet.isNew {
-			im.moonsSeen[m.id] = r.Row
-		} // else planet.moons keeps its row
+		// A second record naming it finds it by its created_rev.
 	case 1:
 		c := cands[0]
-		// A moon this import created was named by an earlier record: the
-		// row is known from planet.moons or moonsSeen, unless the planet
-		// has left the cache since.
-		row, dup := im.moonsSeen[c.id]
-		if !dup && c.rev == im.rev {
-			row, dup = c.row, true
+		// A moon this import created, or one it has seen, was named by an
+		// earlier record: the row is known from planet.moons or seenRow,
+		// unless it has been forgotten since.
+		dup, row := c.rev == im.rev, c.row
+		if !dup && im.seen.has(c.id) {
+			dup, row = true, im.seenRow[c.id]
 		}
 		if dup {
 			first := "an earlier row"
@@ -858,8 +871,12 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			}
 			return nil, fmt.Errorf("%w: moon %q of planet %q appears twice in one import (first at %s)", ErrDuplicate, c.name, planet.name, first)
 		}
-		im.moonsSeen[c.id] = r.Row
-		*m = bodyState{id: c.id, kind: schema.KindMoon, name: c.name, parent: planet.name, queuedAt: -1,
+		im.seen.add(c.id)
+		if len(im.seenRow) >= maxSeenRows {
+			clear(im.seenRow)
+		}
+		im.seenRow[c.id] = r.Row
+		*m = bodyState{id: c.id, kind: schema.KindMoon, name: c.name, parent: planet.name,
 			base: m.base[:0], cur: m.cur[:0], baseID: c.stateID}
 		if c.stateID != 0 {
 			var data []byte
@@ -882,20 +899,16 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			ErrAmbiguous, r.Name, quoteAll(names), planet.name, strings.Join(list, ", "))
 	}
 	mkey := schema.NameKey(m.name)
-	if planet.isNew {
-		if planet.moons == nil {
-			planet.moons = map[string]moonName{}
-		}
-		planet.moons[mkey] = moonName{m.id, m.name, r.Row}
+	if planet.moons == nil {
+		planet.moons = map[string]moonName{}
 	}
+	planet.moons[mkey] = moonName{m.id, m.name, r.Row}
 	for _, n := range names {
 		k := schema.NameKey(n)
 		if k == "" || k == mkey {
 			continue
 		}
-		if planet.isNew {
-			planet.moons[k] = moonName{m.id, m.name, r.Row}
-		}
+		planet.moons[k] = moonName{m.id, m.name, r.Row}
 		if err := im.flushBodies(); err != nil {
 			return nil, err
 		}
@@ -966,8 +979,8 @@ func (im *importer) queueState(b *bodyState) (int64, error) {
 		im.superseded = append(im.superseded, b.baseID)
 	}
 	im.states = append(im.states, id, b.id, im.rev, prev, im.arena[start:len(im.arena):len(im.arena)])
-	if b.queuedAt >= 0 && b.queuedGen == im.bodyGen {
-		im.bodies[b.queuedAt] = id
+	if b.queued > 0 && b.queuedGen == im.bodyGen {
+		im.bodies[b.queued-1] = id
 	} else {
 		im.current = append(im.current, b.id, id)
 	}
@@ -989,9 +1002,9 @@ func (im *importer) loadHost(b *bodyState) error {
 	if b.isNew {
 		return nil
 	}
-	if err := im.flushAll(); err != nil {
-		return err
-	}
+	// Nothing of b waits in the queues: a body this import created and
+	// cached is new (and not loaded), and dropHosts writes everything
+	// before a cached body can be read back.
 	var stateID, setRev, prevID int64
 	var data []byte
 	if err := im.hostState.QueryRowContext(im.ctx, b.id).Scan(&stateID, &setRev, &prevID, &data); err != nil {

@@ -367,9 +367,13 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.findBody, "SELECT id, name FROM body WHERE name_key = ? AND kind = ? AND ifnull(parent_id, 0) = ?"},
 		{&im.findPlanets, `SELECT p.id, p.name, ifnull(p.parent_id, 0), ifnull(s.name, '') FROM body p
 			LEFT JOIN body s ON s.id = p.parent_id WHERE p.name_key = ? AND p.kind = 'planet' ORDER BY p.id`},
-		{&im.matchMoon, `SELECT id, name, created_rev, ifnull(state_id, 0) FROM body
-			WHERE name_key = ?2 AND kind = 'moon' AND ifnull(parent_id, 0) = ?1
-			UNION SELECT b.id, b.name, b.created_rev, ifnull(b.state_id, 0) FROM alias a JOIN body b ON b.id = a.body_id
+		// UNION ALL: the caller drops a moon found twice (no temporary
+		// b-tree per lookup); the current state comes along.
+		{&im.matchMoon, `SELECT b.id, b.name, b.created_rev, ifnull(b.state_id, 0), s.data FROM body b
+			LEFT JOIN state s ON s.id = b.state_id
+			WHERE b.name_key = ?2 AND b.kind = 'moon' AND ifnull(b.parent_id, 0) = ?1
+			UNION ALL SELECT b.id, b.name, b.created_rev, ifnull(b.state_id, 0), s.data FROM alias a JOIN body b ON b.id = a.body_id
+			LEFT JOIN state s ON s.id = b.state_id
 			WHERE a.name_key = ?2 AND b.kind = 'moon' AND b.parent_id = ?1`},
 		{&im.insBody, bodyInsert + bodyInsertRow},
 		{&im.insBodyBatch, bodyInsert + batchOf(bodyInsertRow)},
@@ -804,6 +808,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		rev     int64 // the revision that created it
 		row     int   // for a moon of a planet this import created: the row that named it
 		stateID int64
+		data    []byte // its current state
 	}
 	var cands []cand
 	seen := func(id int64) bool {
@@ -835,7 +840,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		}
 		for rows.Next() {
 			var c cand
-			if err := rows.Scan(&c.id, &c.name, &c.rev, &c.stateID); err != nil {
+			if err := rows.Scan(&c.id, &c.name, &c.rev, &c.stateID, &c.data); err != nil {
 				rows.Close()
 				return nil, err
 			}
@@ -879,12 +884,8 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 		*m = bodyState{id: c.id, kind: schema.KindMoon, name: c.name, parent: planet.name,
 			base: m.base[:0], cur: m.cur[:0], baseID: c.stateID}
 		if c.stateID != 0 {
-			var data []byte
-			if err := im.loadState.QueryRowContext(im.ctx, c.stateID).Scan(&data); err != nil {
-				return nil, fmt.Errorf("read the values of moon %q: %w", c.name, err)
-			}
 			var err error
-			if m.base, err = im.kc.decode(m.base, data, im.in); err != nil {
+			if m.base, err = im.kc.decode(m.base, c.data, im.in); err != nil {
 				return nil, fmt.Errorf("read the values of moon %q: %w", c.name, err)
 			}
 			m.cur = append(m.cur, m.base...)

@@ -297,19 +297,19 @@ const bodyInsertRow = "(?, ?, ?, ?, ?, ?, ?)"
 const stateInsertRow = "(?, ?, ?, ?, ?)"
 
 type importer struct {
-	ctx       context.Context // for statements: never cancelled
-	outer     context.Context // the caller's
-	tx        *sql.Tx
-	rev       int64
-	omit      bool
-	omitAdded bool
+	ctx        context.Context // for statements: never cancelled
+	outer      context.Context // the caller's
+	tx         *sql.Tx
+	rev        int64
+	omit       bool
+	omitAdded  bool
 	maxChanges int
-	res       ImportResult
-	seq       []int        // per Changes entry: the order it was first given in
-	nextSeq   int          // the next such order
-	dead      map[int]bool // indexes of Changes undone later in the request
-	kc        *keyCodes
-	in        interner
+	res        ImportResult
+	seq        []int        // per Changes entry: the order it was first given in
+	nextSeq    int          // the next such order
+	dead       map[int]bool // indexes of Changes undone later in the request
+	kc         *keyCodes
+	in         interner
 
 	findBody, findPlanets, matchMoon, insBody, insAlias, loadState, hostState *sql.Stmt
 	insBodyBatch, insState, insStateBatch, supersede, supersedeBatch          *sql.Stmt
@@ -338,8 +338,8 @@ type importer struct {
 	// exact); seenRow keeps the row for the most recent of them.
 	seen    bitset
 	seenRow map[int64]int
-	cached     int           // stars and planets in the caches
-	evicted    map[int64]hostSummary
+	cached  int // stars and planets in the caches
+	evicted map[int64]hostSummary
 	// evictedWide holds the given key codes of 64 and above of evicted
 	// hosts (none with today's registry).
 	evictedWide map[int64][]uint64

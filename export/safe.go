@@ -4,10 +4,13 @@ import "strings"
 
 // formulaLead reports whether a spreadsheet program would read text starting
 // with b as a formula or a command (OWASP "CSV injection" guidance, common
-// practice): '=', '+', '-', '@', tab, carriage return, and NUL.
+// practice): '=', '+', '-', '@', tab, carriage return, and NUL; or whether a
+// CSV reader would skip a row starting with it as a comment ('#', which the
+// importers' CSV reader skips), so that a name like "#Kel" survives a round
+// trip through the canonical CSV.
 func formulaLead(b byte) bool {
 	switch b {
-	case '=', '+', '-', '@', '\t', '\r', 0:
+	case '=', '+', '-', '@', '\t', '\r', 0, '#':
 		return true
 	}
 	return false

@@ -48,14 +48,14 @@ func WriteRejects(w io.Writer, file string, rejects []Reject) error {
 
 // formulaLead reports whether a spreadsheet would read text starting with b
 // as a formula or a command: '=', '+', '-', '@', tab, CR and NUL (OWASP "CSV
-// injection" guidance, common practice). It is the same set as the export
-// package's formulaLead (export/safe.go), which writes the apostrophe that
-// unneutralise removes; change both together. importers may not import
+// injection" guidance, common practice); or '#', which starts a comment row.
+// It is the same set as the export package's formulaLead (export/safe.go),
+// which writes the apostrophe that unneutralise removes; change both together. importers may not import
 // export (data flows the other way), hence the copy; TestNeutralisationRule
 // in export checks that the two agree on every byte.
 func formulaLead(b byte) bool {
 	switch b {
-	case '=', '+', '-', '@', '\t', '\r', 0:
+	case '=', '+', '-', '@', '\t', '\r', 0, '#':
 		return true
 	}
 	return false

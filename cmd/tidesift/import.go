@@ -202,6 +202,9 @@ func importFile(ctx context.Context, opts *importOptions, ropt importers.Options
 	if err := reportRejects(opts, res); err != nil {
 		return err
 	}
+	for _, w := range res.Warnings {
+		fmt.Fprintf(opts.app.ErrOut, "tidesift: %s: warning: %s\n", path, w)
+	}
 	printImportRows(opts.app.Out, res, rows, out, opts.DryRun)
 	return nil
 }

@@ -109,8 +109,9 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
 		return nil, err
 	}
 	defer func() {
-		// A connection that cannot be put back to enforcing is not reused.
-		if _, ferr := conn.ExecContext(context.WithoutCancel(ctx), "PRAGMA foreign_keys = ON"); ferr != nil {
+		// A connection that cannot be put back as it was is not reused.
+		bg := context.WithoutCancel(ctx)
+		if _, ferr := conn.ExecContext(bg, "PRAGMA foreign_keys = ON; DROP TABLE IF EXISTS temp."+summaryTable); ferr != nil {
 			_ = conn.Raw(func(any) error { return driver.ErrBadConn })
 		}
 	}()
@@ -247,9 +248,9 @@ var hostCacheLimit = 4096 // a variable so that tests can make it tiny
 
 // hostSummary is what must outlive a star's or planet's cache entry, in
 // case a later record names the body again: which keys the request gave it
-// and what they were counted as. It is kept small (one per star and planet
-// of a large file): the keys as a bit set of their codes, the changes as a
-// run of Changes.
+// and what they were counted as: the keys as a bit set of their codes, the
+// changes as a run of Changes. One row per star and planet of a large file
+// waits in a temporary table (flushSummaries), not in memory.
 type hostSummary struct {
 	given                     uint64 // bit c: key code c (below 64) was given
 	firstChange               int32  // index in Changes of the first of its changes; -1: none
@@ -339,11 +340,13 @@ type importer struct {
 	seen    bitset
 	seenRow map[int64]int
 	cached  int // stars and planets in the caches
-	evicted map[int64]hostSummary
-	// evictedWide holds the given key codes of 64 and above of evicted
-	// hosts (none with today's registry).
-	evictedWide map[int64][]uint64
-	moonBody    bodyState // reused for each record's moon
+	// The summaries of stars and planets that left the cache wait in a
+	// temporary table (see summaries), so that memory stays flat however
+	// many a file names: queued rows, then the table's statements.
+	summaries                          []any
+	summaryReady                       bool
+	insSummary, getSummary, delSummary *sql.Stmt
+	moonBody                           bodyState // reused for each record's moon
 	// created holds hashes of the stars and planets this import created,
 	// when the catalog had no bodies before it (nil otherwise): see mayExist.
 	created *bloom
@@ -357,7 +360,7 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 	// back when it is cancelled.
 	im := &importer{ctx: context.WithoutCancel(ctx), outer: ctx, tx: tx, rev: rev, omit: omit, dead: map[int]bool{},
 		in: interner{}, stars: map[string]*bodyState{}, planets: map[childKey]*bodyState{}, anyPlanet: map[string]*bodyState{},
-		planetByID: map[int64]*bodyState{}, seenRow: map[int64]int{}, evicted: map[int64]hostSummary{}, evictedWide: map[int64][]uint64{}}
+		planetByID: map[int64]*bodyState{}, seenRow: map[int64]int{}}
 	batchOf := func(row string) string { return strings.TrimSuffix(strings.Repeat(row+", ", batchRows), ", ") }
 	prep := []struct {
 		dst **sql.Stmt
@@ -1034,18 +1037,20 @@ func (im *importer) loadHost(b *bodyState) error {
 		}
 		b.cur = append([]entry(nil), b.base...)
 	}
-	if s, ok := im.evicted[b.id]; ok {
+	s, wide, ok, err := im.takeSummary(b.id)
+	if err != nil {
+		return err
+	}
+	if ok {
 		// Counted when it left the cache: count it again when it leaves
 		// again, with what later records add. Its changes are listed
 		// anew, in the order of this record.
-		delete(im.evicted, b.id)
 		for c := uint64(0); c < 64; c++ {
 			if s.given&(1<<c) != 0 {
 				b.given = append(b.given, c)
 			}
 		}
-		b.given = append(b.given, im.evictedWide[b.id]...)
-		delete(im.evictedWide, b.id)
+		b.given = append(b.given, wide...)
 		for range b.given {
 			b.givenSeq = append(b.givenSeq, im.nextSeq)
 			b.givenRow = append(b.givenRow, 0)
@@ -1216,15 +1221,97 @@ func (im *importer) finishHosts(keep bool) error {
 			return err
 		}
 		if keep && s != nil {
-			im.evicted[b.id] = *s
+			var wide []string
 			for _, c := range b.given {
 				if c >= 64 {
-					im.evictedWide[b.id] = append(im.evictedWide[b.id], c)
+					wide = append(wide, strconv.FormatUint(c, 10))
 				}
 			}
+			var w any
+			if len(wide) > 0 {
+				w = strings.Join(wide, " ")
+			}
+			im.summaries = append(im.summaries, b.id, int64(s.given), w, s.firstChange, s.nChanges, s.added, s.changed, s.unchanged)
 		}
 	}
+	if keep {
+		return im.flushSummaries()
+	}
 	return nil
+}
+
+// summaryTable is the temporary table of the summaries of stars and planets
+// that left the cache; the import's connection drops it when done.
+const summaryTable = "tidesift_import_host"
+
+const summaryArgs = 8
+
+// flushSummaries writes the queued summaries to the temporary table,
+// creating it first when needed.
+func (im *importer) flushSummaries() error {
+	if len(im.summaries) == 0 {
+		return nil
+	}
+	if !im.summaryReady {
+		if _, err := im.tx.ExecContext(im.ctx, "CREATE TEMP TABLE IF NOT EXISTS "+summaryTable+
+			" (body_id INTEGER PRIMARY KEY, given INTEGER NOT NULL, wide TEXT, first_change INTEGER NOT NULL,"+
+			" n_changes INTEGER NOT NULL, added INTEGER NOT NULL, changed INTEGER NOT NULL, unchanged INTEGER NOT NULL)"); err != nil {
+			return fmt.Errorf("create the table of cached bodies: %w", err)
+		}
+		for _, p := range []struct {
+			dst **sql.Stmt
+			sql string
+		}{
+			{&im.insSummary, "INSERT INTO temp." + summaryTable + " VALUES (?, ?, ?, ?, ?, ?, ?, ?)"},
+			{&im.getSummary, "SELECT given, ifnull(wide, ''), first_change, n_changes, added, changed, unchanged FROM temp." + summaryTable + " WHERE body_id = ?"},
+			{&im.delSummary, "DELETE FROM temp." + summaryTable + " WHERE body_id = ?"},
+		} {
+			st, err := im.tx.PrepareContext(im.ctx, p.sql)
+			if err != nil {
+				return fmt.Errorf("prepare: %w", err)
+			}
+			*p.dst = st
+			im.stmts = append(im.stmts, st)
+		}
+		im.summaryReady = true
+	}
+	for rows := im.summaries; len(rows) > 0; rows = rows[summaryArgs:] {
+		if _, err := im.insSummary.ExecContext(im.ctx, rows[:summaryArgs]...); err != nil {
+			return fmt.Errorf("store a cached body's summary: %w", err)
+		}
+	}
+	clear(im.summaries)
+	im.summaries = im.summaries[:0]
+	return nil
+}
+
+// takeSummary reads and removes the summary of a body that left the cache
+// (ok false when it has none).
+func (im *importer) takeSummary(id int64) (s hostSummary, wide []uint64, ok bool, err error) {
+	if !im.summaryReady {
+		return s, nil, false, nil
+	}
+	var given int64
+	var w string
+	err = im.getSummary.QueryRowContext(im.ctx, id).Scan(&given, &w, &s.firstChange, &s.nChanges, &s.added, &s.changed, &s.unchanged)
+	if errors.Is(err, sql.ErrNoRows) {
+		return s, nil, false, nil
+	}
+	if err != nil {
+		return s, nil, false, fmt.Errorf("read a cached body's summary: %w", err)
+	}
+	s.given = uint64(given)
+	for _, f := range strings.Fields(w) {
+		c, err := strconv.ParseUint(f, 10, 64)
+		if err != nil {
+			return s, nil, false, fmt.Errorf("read a cached body's summary: key code %q: %w", f, err)
+		}
+		wide = append(wide, c)
+	}
+	if _, err := im.delSummary.ExecContext(im.ctx, id); err != nil {
+		return s, nil, false, fmt.Errorf("remove a cached body's summary: %w", err)
+	}
+	return s, wide, true, nil
 }
 
 // flushBodies writes the queued bodies: the states, aliases and children

@@ -1015,6 +1015,9 @@ const (
 	methodTextWidth  = 100
 )
 
+// ownText is text of tidesift's own making, written to a cell as it is.
+type ownText string
+
 func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 	const sheet = SheetMethod
 	f := b.f
@@ -1037,6 +1040,17 @@ func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 			return
 		}
 		switch x := value.(type) {
+		case ownText:
+			// tidesift's own text (the method, written by rank/method):
+			// a string cell is never evaluated, and none of it comes from
+			// a file, so it needs no apostrophe (which would show before
+			// every "- " list item).
+			if x == "" {
+				return
+			}
+			if err = f.SetCellStr(sheet, bc, strings.ToValidUTF8(string(x), "\uFFFD")); err != nil {
+				return
+			}
 		case string:
 			if x == "" {
 				return
@@ -1119,11 +1133,11 @@ func (b *book) method(r *rank.Result, info WorkbookInfo) error {
 	lines := splitLines(info.Method)
 	for i := 0; i < len(lines); i++ {
 		if i+1 < len(lines) && isUnderline(lines[i+1], lines[i]) {
-			put("", 0, lines[i], b.bold)
+			put("", 0, ownText(lines[i]), b.bold)
 			i++
 			continue
 		}
-		put("", 0, lines[i], b.mono)
+		put("", 0, ownText(lines[i]), b.mono)
 	}
 	put("", 0, nil, 0)
 	section("Scoring profile (TOML, in full)", splitLines(r.ProfileTOML), b.mono)

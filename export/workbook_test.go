@@ -315,7 +315,7 @@ func TestWorkbookMethodSheet(t *testing.T) {
 		t.Error("method heading not found in column B")
 	}
 	for _, want := range []string{Caution, "never replace, expert review", "Tidal heating", "Osk c IX (Osk c): missing mass, radius", "profile prior for k2_q", "conduction only", "no self-compression",
-		"Tidal power: E = (3/2)", "'= a line that looks like a formula", "'- a bulleted simplification",
+		"Tidal power: E = (3/2)", "\n= a line that looks like a formula", "\n- a bulleted simplification",
 		`name = "ocean-worlds"`, `quantity = "ocean_probability"`} {
 		if !strings.Contains(all, want) {
 			t.Errorf("Method sheet lacks %q", want)

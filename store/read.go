@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"hash"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -144,6 +145,13 @@ func snapshot(ctx context.Context, q queryer, rev int64) (*schema.Catalog, error
 	}); err != nil {
 		return nil, err
 	}
+	cat := assemble(r, bodies)
+	cat.ContentHash = contentHash(cat, bodies)
+	return cat, nil
+}
+
+// assemble builds a catalog of the loaded bodies, in the snapshot's order.
+func assemble(r schema.Revision, bodies map[int64]*snapBody) *schema.Catalog {
 	cat := &schema.Catalog{Revision: r, Stars: []schema.Body{}, Planets: []schema.Body{}, Moons: []schema.Body{}}
 	for _, kind := range []schema.Kind{schema.KindStar, schema.KindPlanet, schema.KindMoon} {
 		list := sortedBodies(bodies, kind)
@@ -158,8 +166,139 @@ func snapshot(ctx context.Context, q queryer, rev int64) (*schema.Catalog, error
 			}
 		}
 	}
-	cat.ContentHash = contentHash(cat, bodies)
+	return cat
+}
+
+// SnapshotOf is Snapshot cut down to the moons that name (or one of their
+// aliases) matches, as of revision rev, with their planets and stars: what a
+// command about one moon needs, read in time that does not grow with the
+// catalog. The moons of every planet that match are included, so that the
+// caller can resolve an ambiguous name as it would in the whole snapshot.
+// ContentHash is left empty: it describes whole catalogs only.
+func (s *Store) SnapshotOf(ctx context.Context, rev int64, name string) (*schema.Catalog, error) {
+	var cat *schema.Catalog
+	err := s.readTx(ctx, func(q queryer) error {
+		r, err := resolveRevision(ctx, q, rev)
+		if err != nil {
+			return err
+		}
+		key := schema.NameKey(name)
+		bodies := map[int64]*snapBody{}
+		var order []int64
+		load := func(query string, args ...any) error {
+			rows, err := q.QueryContext(ctx, query, args...)
+			if err != nil {
+				return err
+			}
+			defer rows.Close()
+			for rows.Next() {
+				b := &schema.Body{Params: map[string]schema.Param{}}
+				sb := &snapBody{b: b}
+				var kind string
+				if err := rows.Scan(&b.ID, &kind, &b.Name, &sb.parentID); err != nil {
+					return err
+				}
+				if bodies[b.ID] == nil {
+					b.Kind = schema.Kind(kind)
+					sb.key = schema.NameKey(b.Name)
+					bodies[b.ID] = sb
+					order = append(order, b.ID)
+				}
+			}
+			return rows.Err()
+		}
+		const cols = "SELECT b.id, b.kind, b.name, ifnull(b.parent_id, 0) FROM body b "
+		if err := load(cols+`WHERE b.name_key = ?1 AND b.kind = 'moon' AND b.created_rev <= ?2
+			UNION ALL `+cols+`JOIN alias a ON a.body_id = b.id
+			WHERE a.name_key = ?1 AND a.rev <= ?2 AND b.kind = 'moon' AND b.created_rev <= ?2`, key, r.ID); err != nil {
+			return err
+		}
+		// Their planets, then the planets' stars.
+		for range 2 {
+			for _, id := range slices.Clone(order) {
+				if p := bodies[id].parentID; p != 0 && bodies[p] == nil {
+					if err := load(cols+"WHERE b.id = ? AND b.created_rev <= ?", p, r.ID); err != nil {
+						return err
+					}
+				}
+			}
+		}
+		for _, sb := range bodies {
+			if p := bodies[sb.parentID]; p != nil {
+				sb.b.Parent, sb.parentKey = p.b.Name, p.key
+				if g := bodies[p.parentID]; g != nil {
+					sb.grand, sb.grandKey = g.b.Name, g.key
+				}
+			}
+		}
+		kc, err := loadKeyCodes(ctx, q)
+		if err != nil {
+			return err
+		}
+		in := interner{}
+		for _, id := range order {
+			sb := bodies[id]
+			if sb.b.Kind == schema.KindMoon {
+				rows, err := q.QueryContext(ctx, "SELECT name FROM alias WHERE body_id = ? AND rev <= ? ORDER BY name_key", id, r.ID)
+				if err != nil {
+					return err
+				}
+				for rows.Next() {
+					var a string
+					if err := rows.Scan(&a); err != nil {
+						rows.Close()
+						return err
+					}
+					sb.b.Aliases = append(sb.b.Aliases, a)
+				}
+				rows.Close()
+				if err := rows.Err(); err != nil {
+					return err
+				}
+			}
+			vals, err := valuesAt(ctx, q, kc, in, id, r.ID)
+			if err != nil {
+				return err
+			}
+			for _, e := range vals {
+				sb.b.Params[e.p.Key] = e.p
+			}
+		}
+		cat = assemble(r, bodies)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("snapshot of %s: %w", name, err)
+	}
 	return cat, nil
+}
+
+// valuesAt returns a body's values as of revision rev, walking its chain of
+// states back from the current one.
+func valuesAt(ctx context.Context, q queryer, kc *keyCodes, in interner, body, rev int64) ([]entry, error) {
+	var next sql.NullInt64
+	if err := q.QueryRowContext(ctx, "SELECT state_id FROM body WHERE id = ?", body).Scan(&next); err != nil {
+		return nil, err
+	}
+	for steps := 0; next.Valid && next.Int64 != 0; steps++ {
+		if steps > 1<<20 {
+			return nil, fmt.Errorf("body %d: its states form a loop", body)
+		}
+		var set int64
+		var data []byte
+		id := next.Int64
+		if err := q.QueryRowContext(ctx, "SELECT set_rev, prev_id, data FROM state WHERE id = ?", id).Scan(&set, &next, &data); err != nil {
+			return nil, fmt.Errorf("body %d, state %d: %w", body, id, err)
+		}
+		if set <= rev {
+			vals, err := kc.decode(nil, data, in)
+			if err != nil {
+				return nil, fmt.Errorf("body %d, state %d: %w", body, id, err)
+			}
+			return vals, nil
+		}
+	}
+	return nil, nil // no values yet at rev
 }
 
 // loadBodies reads the bodies that existed at revision rev, with their
@@ -269,49 +408,85 @@ func sortedBodies(bodies map[int64]*snapBody, kind schema.Kind) []*snapBody {
 // length-prefixed and floats written in their shortest exact form, so the
 // serialisation is unambiguous.
 func contentHash(cat *schema.Catalog, bodies map[int64]*snapBody) string {
-	h := sha256.New()
-	str := func(s string) { fmt.Fprintf(h, "%d:%s;", len(s), s) }
-	num := func(x float64) { h.Write([]byte(strconv.FormatFloat(x, 'g', -1, 64) + ";")) }
-	str("tidesift catalog content v1")
+	c := &canon{h: sha256.New()}
+	c.str("tidesift catalog content v1")
 	for _, list := range [][]schema.Body{cat.Stars, cat.Planets, cat.Moons} {
-		for _, b := range list {
-			writeBody(h, str, num, &b, bodies[b.ID])
+		for i := range list {
+			c.body(&list[i], bodies[list[i].ID])
 		}
 	}
-	return hex.EncodeToString(h.Sum(nil))
+	c.flush()
+	return hex.EncodeToString(c.h.Sum(nil))
 }
 
-func writeBody(h hash.Hash, str func(string), num func(float64), b *schema.Body, sb *snapBody) {
-	str("body")
-	str(string(b.Kind))
-	str(b.Name)
-	str(b.Parent)
+// canon writes contentHash's serialisation through a buffer (a million
+// bodies make tens of millions of small writes).
+type canon struct {
+	h   hash.Hash
+	buf []byte
+}
+
+func (c *canon) flush() {
+	c.h.Write(c.buf)
+	c.buf = c.buf[:0]
+}
+
+// str writes a length-prefixed string: "len:s;".
+func (c *canon) str(s string) {
+	c.buf = strconv.AppendInt(c.buf, int64(len(s)), 10)
+	c.buf = append(c.buf, ':')
+	c.buf = append(c.buf, s...)
+	c.buf = append(c.buf, ';')
+	if len(c.buf) > 32<<10 {
+		c.flush()
+	}
+}
+
+// num writes a float in its shortest exact form: "x;".
+func (c *canon) num(x float64) {
+	c.buf = strconv.AppendFloat(c.buf, x, 'g', -1, 64)
+	c.buf = append(c.buf, ';')
+}
+
+// count writes "label n;".
+func (c *canon) count(label string, n int) {
+	c.buf = append(c.buf, label...)
+	c.buf = append(c.buf, ' ')
+	c.buf = strconv.AppendInt(c.buf, int64(n), 10)
+	c.buf = append(c.buf, ';')
+}
+
+func (c *canon) body(b *schema.Body, sb *snapBody) {
+	c.str("body")
+	c.str(string(b.Kind))
+	c.str(b.Name)
+	c.str(b.Parent)
 	if sb != nil {
-		str(sb.grand)
+		c.str(sb.grand)
 	}
 	aliases := append([]string(nil), b.Aliases...)
 	sort.Strings(aliases)
-	fmt.Fprintf(h, "aliases %d;", len(aliases))
+	c.count("aliases", len(aliases))
 	for _, a := range aliases {
-		str(a)
+		c.str(a)
 	}
 	keys := make([]string, 0, len(b.Params))
 	for k := range b.Params {
 		keys = append(keys, k)
 	}
 	sort.Strings(keys)
-	fmt.Fprintf(h, "params %d;", len(keys))
+	c.count("params", len(keys))
 	for _, k := range keys {
 		p := b.Params[k]
-		str(k)
-		num(p.Value)
+		c.str(k)
+		c.num(p.Value)
 		u := normUnc(p.Unc)
-		str(u.Kind.String())
-		for _, x := range []float64{u.Sigma, u.Plus, u.Minus, u.Min, u.Max, u.Factor} {
-			num(x)
+		c.str(u.Kind.String())
+		for _, x := range [...]float64{u.Sigma, u.Plus, u.Minus, u.Min, u.Max, u.Factor} {
+			c.num(x)
 		}
-		str(p.Source)
-		str(string(p.Status))
+		c.str(p.Source)
+		c.str(string(p.Status))
 	}
 }
 
@@ -324,12 +499,19 @@ type moonRef struct {
 // findMoon finds a moon by name or alias, optionally under a named planet.
 func findMoon(ctx context.Context, q queryer, moon, planet string) (moonRef, error) {
 	mk, pk := schema.NameKey(moon), schema.NameKey(planet)
+	// Two lookups, by name and by alias, each on its index (an OR across
+	// the join would scan every body).
 	rows, err := q.QueryContext(ctx, `
-		SELECT DISTINCT m.id, m.name, p.id, p.name, ifnull(p.parent_id, 0)
-		FROM body m JOIN body p ON p.id = m.parent_id
-		LEFT JOIN alias a ON a.body_id = m.id
-		WHERE m.kind = 'moon' AND (m.name_key = ?1 OR a.name_key = ?1) AND (?2 = '' OR p.name_key = ?2)
-		ORDER BY p.name_key, m.name_key, m.id`, mk, pk)
+		SELECT DISTINCT id, name, pid, pname, sid FROM (
+			SELECT m.id, m.name, m.name_key AS mkey, p.id AS pid, p.name AS pname, p.name_key AS pkey, ifnull(p.parent_id, 0) AS sid
+			FROM body m JOIN body p ON p.id = m.parent_id
+			WHERE m.name_key = ?1 AND m.kind = 'moon'
+			UNION ALL
+			SELECT m.id, m.name, m.name_key, p.id, p.name, p.name_key, ifnull(p.parent_id, 0)
+			FROM alias a JOIN body m ON m.id = a.body_id JOIN body p ON p.id = m.parent_id
+			WHERE a.name_key = ?1 AND m.kind = 'moon')
+		WHERE ?2 = '' OR pkey = ?2
+		ORDER BY pkey, mkey, id`, mk, pk)
 	if err != nil {
 		return moonRef{}, err
 	}

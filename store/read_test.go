@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"math/rand/v2"
+	"reflect"
 	"strings"
 	"testing"
 	"time"
@@ -233,5 +234,53 @@ func TestRevisionTimesNeverGoBackwards(t *testing.T) {
 	}
 	if rep, err := s.Check(context.Background()); err != nil || !rep.OK() {
 		t.Errorf("Check = %v, %v", rep, err)
+	}
+}
+
+// TestSnapshotOfMatchesSnapshot: the cut-down snapshot of one name holds
+// exactly the matching moons of the full snapshot, with their planets and
+// stars, at every revision (aliases and a name shared by two planets'
+// moons included).
+func TestSnapshotOfMatchesSnapshot(t *testing.T) {
+	s := threeRevisions(t)
+	twin := rec("Aster", "Other Giant", "Other Star", p("mass", 3e22), p("star_luminosity", 1e26))
+	twin.Aliases = []string{"OG I"}
+	mustImport(t, s, ImportRequest{File: "r4.csv", SHA256: sum("r4"), Records: []schema.Record{twin}})
+	ctx := context.Background()
+	for rev := int64(0); rev <= 4; rev++ {
+		full := mustSnapshot(t, s, rev)
+		for _, name := range []string{"Aster", " aster ", "Beryl", "OG I", "Nobody"} {
+			got, err := s.SnapshotOf(ctx, rev, name)
+			if err != nil {
+				t.Fatalf("SnapshotOf(%d, %q): %v", rev, name, err)
+			}
+			want := &schema.Catalog{Revision: full.Revision, Stars: []schema.Body{}, Planets: []schema.Body{}, Moons: []schema.Body{}}
+			parents := map[string]bool{}
+			for _, m := range full.Moons {
+				match := schema.NameKey(m.Name) == schema.NameKey(name)
+				for _, a := range m.Aliases {
+					match = match || schema.NameKey(a) == schema.NameKey(name)
+				}
+				if match {
+					want.Moons = append(want.Moons, m)
+					parents[m.Parent] = true
+				}
+			}
+			stars := map[string]bool{}
+			for _, pl := range full.Planets {
+				if parents[pl.Name] {
+					want.Planets = append(want.Planets, pl)
+					stars[pl.Parent] = true
+				}
+			}
+			for _, st := range full.Stars {
+				if stars[st.Name] {
+					want.Stars = append(want.Stars, st)
+				}
+			}
+			if !reflect.DeepEqual(got, want) {
+				t.Errorf("SnapshotOf(%d, %q):\n got %+v\nwant %+v", rev, name, got, want)
+			}
+		}
 	}
 }

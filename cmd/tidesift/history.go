@@ -74,7 +74,7 @@ func runHistory(ctx context.Context, opts *historyOptions) error {
 	defer st.Close()
 	// Resolve the name (aliases, ambiguity) against the latest catalog, so
 	// history reports the same errors as show.
-	cat, err := st.Snapshot(ctx, 0)
+	cat, err := st.SnapshotOf(ctx, 0, opts.Name)
 	if err != nil {
 		return err
 	}

@@ -89,7 +89,9 @@ func runShow(ctx context.Context, opts *showOptions) error {
 		return err
 	}
 	defer st.Close()
-	cat, err := st.Snapshot(ctx, opts.Revision)
+	// Only the moons of that name, with their planets and stars: a
+	// command about one moon reads no more of a large catalog.
+	cat, err := st.SnapshotOf(ctx, opts.Revision, opts.Name)
 	if err != nil {
 		return err
 	}

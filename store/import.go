@@ -452,6 +452,16 @@ func (im *importer) result() *ImportResult {
 	return &res
 }
 
+// sources returns the interner for the sources of states read back. It is
+// emptied now and then, so that a file of many distinct citations does not
+// grow it without end (sharing is an economy, not a need).
+func (im *importer) sources() interner {
+	if len(im.in) > 1<<12 {
+		clear(im.in)
+	}
+	return im.in
+}
+
 // code returns the key code of a key, giving it one when it has none yet (a
 // key added to the registry after the catalog was made).
 func (im *importer) code(key string) (uint64, error) {
@@ -888,7 +898,7 @@ func (im *importer) moon(r *schema.Record, planet *bodyState) (*bodyState, error
 			base: m.base[:0], cur: m.cur[:0], baseID: c.stateID}
 		if c.stateID != 0 {
 			var err error
-			if m.base, err = im.kc.decode(m.base, c.data, im.in); err != nil {
+			if m.base, err = im.kc.decode(m.base, c.data, im.sources()); err != nil {
 				return nil, fmt.Errorf("read the values of moon %q: %w", c.name, err)
 			}
 			m.cur = append(m.cur, m.base...)
@@ -1018,7 +1028,7 @@ func (im *importer) loadHost(b *bodyState) error {
 	if stateID != 0 && setRev == im.rev {
 		// Written by this import before the body left the cache.
 		b.ownID = stateID
-		if b.cur, err = im.kc.decode(nil, data, im.in); err != nil {
+		if b.cur, err = im.kc.decode(nil, data, im.sources()); err != nil {
 			return fmt.Errorf("read the values of %s %q: %w", b.kind, b.name, err)
 		}
 		b.baseID = prevID
@@ -1026,13 +1036,13 @@ func (im *importer) loadHost(b *bodyState) error {
 			if err := im.loadState.QueryRowContext(im.ctx, prevID).Scan(&data); err != nil {
 				return fmt.Errorf("read the values of %s %q: %w", b.kind, b.name, err)
 			}
-			if b.base, err = im.kc.decode(nil, data, im.in); err != nil {
+			if b.base, err = im.kc.decode(nil, data, im.sources()); err != nil {
 				return fmt.Errorf("read the values of %s %q: %w", b.kind, b.name, err)
 			}
 		}
 	} else if stateID != 0 {
 		b.baseID = stateID
-		if b.base, err = im.kc.decode(nil, data, im.in); err != nil {
+		if b.base, err = im.kc.decode(nil, data, im.sources()); err != nil {
 			return fmt.Errorf("read the values of %s %q: %w", b.kind, b.name, err)
 		}
 		b.cur = append([]entry(nil), b.base...)

@@ -343,10 +343,11 @@ type importer struct {
 	// The summaries of stars and planets that left the cache wait in a
 	// temporary table (see summaries), so that memory stays flat however
 	// many a file names: queued rows, then the table's statements.
-	summaries                          []any
-	summaryReady                       bool
-	insSummary, getSummary, delSummary *sql.Stmt
-	moonBody                           bodyState // reused for each record's moon
+	summaries                []any
+	summaryReady             bool
+	insSummary, insSummaries *sql.Stmt
+	getSummary, delSummary   *sql.Stmt
+	moonBody                 bodyState // reused for each record's moon
 	// created holds hashes of the stars and planets this import created,
 	// when the catalog had no bodies before it (nil otherwise): see mayExist.
 	created *bloom
@@ -1256,6 +1257,8 @@ const summaryTable = "tidesift_import_host"
 
 const summaryArgs = 8
 
+const summaryRow = "(?, ?, ?, ?, ?, ?, ?, ?)"
+
 // flushSummaries writes the queued summaries to the temporary table,
 // creating it first when needed.
 func (im *importer) flushSummaries() error {
@@ -1272,7 +1275,9 @@ func (im *importer) flushSummaries() error {
 			dst **sql.Stmt
 			sql string
 		}{
-			{&im.insSummary, "INSERT INTO temp." + summaryTable + " VALUES (?, ?, ?, ?, ?, ?, ?, ?)"},
+			{&im.insSummary, "INSERT INTO temp." + summaryTable + " VALUES " + summaryRow},
+			{&im.insSummaries, "INSERT INTO temp." + summaryTable + " VALUES " +
+				strings.TrimSuffix(strings.Repeat(summaryRow+", ", batchRows), ", ")},
 			{&im.getSummary, "SELECT given, ifnull(wide, ''), first_change, n_changes, added, changed, unchanged FROM temp." + summaryTable + " WHERE body_id = ?"},
 			{&im.delSummary, "DELETE FROM temp." + summaryTable + " WHERE body_id = ?"},
 		} {
@@ -1285,7 +1290,13 @@ func (im *importer) flushSummaries() error {
 		}
 		im.summaryReady = true
 	}
-	for rows := im.summaries; len(rows) > 0; rows = rows[summaryArgs:] {
+	rows := im.summaries
+	for ; len(rows) >= batchRows*summaryArgs; rows = rows[batchRows*summaryArgs:] {
+		if _, err := im.insSummaries.ExecContext(im.ctx, rows[:batchRows*summaryArgs]...); err != nil {
+			return fmt.Errorf("store cached bodies' summaries: %w", err)
+		}
+	}
+	for ; len(rows) > 0; rows = rows[summaryArgs:] {
 		if _, err := im.insSummary.ExecContext(im.ctx, rows[:summaryArgs]...); err != nil {
 			return fmt.Errorf("store a cached body's summary: %w", err)
 		}

@@ -273,14 +273,9 @@ type childKey struct {
 	key    string
 }
 
-// The multi-row statements resolve constraint failures with FAIL rather
-// than the default ABORT: ABORT must be able to undo the rows a statement
-// already wrote, so SQLite keeps a statement journal of every page such a
-// statement touches, which cost about a tenth of a large import. Any failure
-// rolls the whole import transaction back anyway.
-const bodyInsert = "INSERT OR FAIL INTO body (id, kind, name, name_key, parent_id, created_rev, state_id) VALUES "
+const bodyInsert = "INSERT INTO body (id, kind, name, name_key, parent_id, created_rev, state_id) VALUES "
 
-const stateInsert = "INSERT OR FAIL INTO state (id, body_id, set_rev, prev_id, data) VALUES "
+const stateInsert = "INSERT INTO state (id, body_id, set_rev, prev_id, data) VALUES "
 
 // Arguments per queued row.
 const (
@@ -388,9 +383,9 @@ func newImporter(ctx context.Context, tx *sql.Tx, rev int64, omit bool) (*import
 		{&im.insState, stateInsert + stateInsertRow},
 		{&im.insStateBatch, stateInsert + batchOf(stateInsertRow)},
 		{&im.supersede, "UPDATE state SET superseded_rev = ? WHERE id = ?"},
-		{&im.supersedeBatch, "UPDATE OR FAIL state SET superseded_rev = ? WHERE id IN (?" + strings.Repeat(", ?", batchRows-1) + ")"},
+		{&im.supersedeBatch, "UPDATE state SET superseded_rev = ? WHERE id IN (?" + strings.Repeat(", ?", batchRows-1) + ")"},
 		{&im.setCurrent, "UPDATE body SET state_id = ?2 WHERE id = ?1"},
-		{&im.setCurrentBatch, "UPDATE OR FAIL body SET state_id = v.column2 FROM (VALUES " + batchOf("(?, ?)") + ") AS v WHERE body.id = v.column1"},
+		{&im.setCurrentBatch, "UPDATE body SET state_id = v.column2 FROM (VALUES " + batchOf("(?, ?)") + ") AS v WHERE body.id = v.column1"},
 		{&im.updState, "UPDATE state SET data = ? WHERE id = ?"},
 		{&im.addKey, "INSERT INTO key_name (code, key) VALUES (?, ?)"},
 	}

@@ -96,7 +96,7 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
 	feed func(apply func(rec *prepared, i int) error) error) (res *ImportResult, err error) {
 	// The import's rows are written parents first, with ids it hands out
 	// itself under the write lock, so foreign keys hold by construction;
-	// enforcing them costs a lookup per key and row (about a seventh of a
+	// enforcing them costs a lookup per key and row (about a tenth of a
 	// large import, measured with bench/import.sh). They are switched off
 	// for this transaction only (the pragma is a no-op inside one), and
 	// `tidesift check` still runs foreign_key_check.
@@ -641,7 +641,7 @@ func (im *importer) mayExist(kind schema.Kind, key string) bool {
 
 // bloom is a Bloom filter of fixed size, so that memory stays flat however
 // many bodies a file creates; with 2²³ bits and three probes, 200,000
-// members give about one false positive in 2,500 lookups (Bloom 1970; the
+// members give about one false positive in 3,000 lookups (Bloom 1970; the
 // rate (1 − e^(−kn/m))^k is common practice).
 type bloom [1 << 17]uint64
 

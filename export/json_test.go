@@ -124,7 +124,7 @@ func TestWriteJSONRoundTrip(t *testing.T) {
 	if !reflect.DeepEqual(back, want) {
 		t.Errorf("round trip differs:\n got %+v\nwant %+v", back, want)
 	}
-	for _, name := range []string{`"format_version": 1`, `"catalog_revision": 7`, `"seed": 42`, `"tidal_power_w"`, `"retention"`} {
+	for _, name := range []string{`"format_version": 2`, `"catalog_revision": 7`, `"seed": 42`, `"tidal_power_w"`, `"retention"`} {
 		if !strings.Contains(buf.String(), name) {
 			t.Errorf("document lacks %s", name)
 		}

@@ -4,8 +4,9 @@ import "tidesift/schema"
 
 // FormatVersion is the version of the machine-readable ranking document. Bump it
 // whenever a JSON name below changes meaning or disappears; adding a field does
-// not need a bump.
-const FormatVersion = 1
+// not need a bump. Version 2: assumed_inputs lists only catalog keys a prior
+// replaced (version 1 also listed model parameters such as rock_density).
+const FormatVersion = 2
 
 // Result is a ranking of a catalog's moons under one profile. Its JSON form is the
 // contract of `tidesift rank --format json` (see DEVELOPERS.md); exporters read a

@@ -1,6 +1,7 @@
 package store
 
 import (
+	"cmp"
 	"context"
 	"database/sql"
 	"database/sql/driver"
@@ -8,6 +9,7 @@ import (
 	"errors"
 	"fmt"
 	"hash/maphash"
+	"maps"
 	"slices"
 	"sort"
 	"strconv"
@@ -60,11 +62,11 @@ func (s *Store) Import(ctx context.Context, req ImportRequest) (*ImportResult, e
 	var res *ImportResult
 	err = withRetry(ctx, func() error {
 		var err error
-		res, err = s.importTx(ctx, req, sum, func(apply func(*prepared, int) error) error {
+		res, err = s.importTx(ctx, req, sum, func(apply func(*prepared, int) error, pp *preparer) error {
 			var pr prepared
 			for i := range req.Records {
 				pr = prepared{rec: req.Records[i]}
-				prepare(&pr, false) // the caller's records stay as they are
+				pp.prepare(&pr, false) // the caller's records stay as they are
 				if err := apply(&pr, i); err != nil {
 					return err
 				}
@@ -93,7 +95,7 @@ func checkSum(req ImportRequest) (string, error) {
 // importTx runs one import transaction; feed hands every record to apply,
 // in order, with its 0-based index.
 func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
-	feed func(apply func(rec *prepared, i int) error) error) (res *ImportResult, err error) {
+	feed func(apply func(rec *prepared, i int) error, pp *preparer) error) (res *ImportResult, err error) {
 	// The import's rows are written parents first, with ids it hands out
 	// itself under the write lock, so foreign keys hold by construction;
 	// enforcing them costs a lookup per key and row (about a tenth of a
@@ -161,12 +163,15 @@ func (s *Store) importTx(ctx context.Context, req ImportRequest, sum string,
 	im.omitAdded = req.OmitAdded
 	im.maxChanges = req.MaxChanges
 	defer im.close()
+	// New moons' states can be encoded while records are prepared when no
+	// change needs listing for them (a large first import).
+	pp := &preparer{rev: revID, codes: maps.Clone(im.kc.byKey), encode: req.OmitChanges || req.OmitAdded}
 	if err := feed(func(pr *prepared, i int) error {
 		if err := im.record(pr); err != nil {
 			return fmt.Errorf("%s: %w", recordPlace(req.File, &pr.rec, i), err)
 		}
 		return nil
-	}); err != nil {
+	}, pp); err != nil {
 		return nil, err
 	}
 	if err := im.flush(); err != nil {
@@ -484,12 +489,25 @@ type prepared struct {
 	// values; the rest are looked up again).
 	kinds [24]schema.Kind
 	err   error // the record's own problem, reported when it is applied
+	// fresh is the encoded state of the record's moon values alone, with
+	// the import's revision: the state of the moon if it is new (nil when
+	// not encoded, see preparer); nFresh counts its values.
+	fresh  []byte
+	nFresh int
+}
+
+// preparer holds what prepare needs of the import: its revision, and a copy
+// of the key codes (records are prepared on another goroutine).
+type preparer struct {
+	rev    int64
+	codes  map[string]uint64
+	encode bool // encode prepared.fresh
 }
 
 // prepare checks and completes a record's values in place (a shallow copy of
 // the caller's record: own says whether its Params may be changed, or must
-// be copied first).
-func prepare(pr *prepared, own bool) {
+// be copied first), and encodes its moon values when pp says so.
+func (pp *preparer) prepare(pr *prepared, own bool) {
 	r := &pr.rec
 	pr.nameKey, pr.planetKey, pr.starKey = schema.NameKey(r.Name), schema.NameKey(r.Planet), schema.NameKey(r.Star)
 	if pr.nameKey == "" {
@@ -539,6 +557,36 @@ func prepare(pr *prepared, own bool) {
 			return
 		}
 	}
+	if pp.encode && len(r.Params) <= len(pr.kinds) {
+		pr.fresh, pr.nFresh = pp.freshState(pr)
+	}
+}
+
+// freshState encodes the moon values of a prepared record as a new moon's
+// state, as the importer would (see encodeEntries); nil when a key has no
+// code yet (the importer gives it one).
+func (pp *preparer) freshState(pr *prepared) ([]byte, int) {
+	var vals [24]schema.StateValue
+	n := 0
+	for i := range pr.rec.Params {
+		if pr.kinds[i] != schema.KindMoon {
+			continue
+		}
+		p := pr.rec.Params[i]
+		c, ok := pp.codes[p.Key]
+		if !ok {
+			return nil, 0
+		}
+		p.Revision = pp.rev
+		vals[n] = schema.StateValue{Code: c, Param: p}
+		n++
+	}
+	if n == 0 {
+		return nil, 0
+	}
+	sorted := vals[:n]
+	slices.SortFunc(sorted, func(a, b schema.StateValue) int { return cmp.Compare(a.Code, b.Code) })
+	return schema.AppendState(nil, sorted), n
 }
 
 // record applies one prepared record.
@@ -570,6 +618,8 @@ func (im *importer) record(pr *prepared) error {
 	if err != nil {
 		return err
 	}
+	// A new moon takes the state prepared for it, when there is one.
+	fresh := moon.isNew && pr.fresh != nil
 	for i := range r.Params {
 		p := r.Params[i]
 		var kind schema.Kind
@@ -585,6 +635,10 @@ func (im *importer) record(pr *prepared) error {
 			b = planet
 		case schema.KindStar:
 			b = star
+		default:
+			if fresh {
+				continue
+			}
 		}
 		p.Revision = im.rev
 		c, err := im.code(p.Key)
@@ -596,6 +650,13 @@ func (im *importer) record(pr *prepared) error {
 		} else if err := im.setHost(b, c, p, r.Row); err != nil {
 			return fmt.Errorf("%s: %w", p.Key, err)
 		}
+	}
+	if fresh {
+		im.res.Added += pr.nFresh
+		start := len(im.arena)
+		im.arena = append(im.arena, pr.fresh...)
+		_, err := im.queueEncoded(moon, im.arena[start:len(im.arena):len(im.arena)])
+		return err
 	}
 	return im.finishMoon(moon)
 }
@@ -979,16 +1040,22 @@ func (im *importer) finishMoon(m *bodyState) error {
 // queueState queues a new state of b holding b.cur, superseding b.baseID,
 // and makes it b's current state. It returns the new state's id.
 func (im *importer) queueState(b *bodyState) (int64, error) {
-	id := im.nextState
-	im.nextState++
 	start := len(im.arena)
 	im.arena, im.scratch = encodeEntries(im.arena, b.cur, im.scratch)
+	return im.queueEncoded(b, im.arena[start:len(im.arena):len(im.arena)])
+}
+
+// queueEncoded is queueState for a state already encoded (data, which must
+// stay unchanged until the queue is written).
+func (im *importer) queueEncoded(b *bodyState, data []byte) (int64, error) {
+	id := im.nextState
+	im.nextState++
 	var prev any
 	if b.baseID != 0 {
 		prev = b.baseID
 		im.superseded = append(im.superseded, b.baseID)
 	}
-	im.states = append(im.states, id, b.id, im.rev, prev, im.arena[start:len(im.arena):len(im.arena)])
+	im.states = append(im.states, id, b.id, im.rev, prev, data)
 	if b.queued > 0 && b.queuedGen == im.bodyGen {
 		im.bodies[b.queued-1] = id
 	} else {

@@ -60,8 +60,8 @@ func (s *Store) ImportStream(ctx context.Context, req ImportRequest, records Rec
 	var res *ImportResult
 	err = withRetry(ctx, func() error {
 		var err error
-		res, err = s.importTx(ctx, req, sum, func(apply func(*prepared, int) error) error {
-			return pipe(ctx, records, apply)
+		res, err = s.importTx(ctx, req, sum, func(apply func(*prepared, int) error, pp *preparer) error {
+			return pipe(ctx, records, apply, pp)
 		})
 		return err
 	})
@@ -74,7 +74,7 @@ func (s *Store) ImportStream(ctx context.Context, req ImportRequest, records Rec
 // pipe runs the source on a goroutine, which also prepares each record (see
 // prepare), hands them over in batches and applies them on this one. It
 // returns the first error of either side, after the source has stopped.
-func pipe(ctx context.Context, records RecordSource, apply func(*prepared, int) error) error {
+func pipe(ctx context.Context, records RecordSource, apply func(*prepared, int) error, pp *preparer) error {
 	full := make(chan []prepared, streamDepth)
 	free := make(chan []prepared, streamDepth+2)
 	stop := make(chan struct{})
@@ -104,7 +104,7 @@ func pipe(ctx context.Context, records RecordSource, apply func(*prepared, int) 
 			buf = append(buf, prepared{rec: *r})
 			// The source does not reuse a record's slices (see
 			// RecordSource), so its values may be completed in place.
-			prepare(&buf[len(buf)-1], true)
+			pp.prepare(&buf[len(buf)-1], true)
 			if len(buf) == streamBatch {
 				return send()
 			}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"reflect"
 	"strings"
 	"testing"
 
@@ -218,5 +219,45 @@ func TestImportDroppedHostCacheMatchesCached(t *testing.T) {
 	}
 	if fmt.Sprint(a) != fmt.Sprint(b) || ha != hb {
 		t.Errorf("cached: %v %s\ndropped: %v %s", a, ha[:16], b, hb[:16])
+	}
+}
+
+// TestFreshStatesMatchImporter: the states prepared on the reading
+// goroutine for new moons (when added values need no listing) are the bytes
+// the importer itself would write.
+func TestFreshStatesMatchImporter(t *testing.T) {
+	recs := synthRecords(300, 7, 0)
+	recs[5].Params = append(recs[5].Params[:0:0], recs[5].Params...)
+	recs[5].Params[0].Source = "a value's own invented source"
+	dump := func(omitAdded bool) []string {
+		s := memStore(t)
+		mustImport(t, s, ImportRequest{File: "a.csv", Records: recs, OmitAdded: omitAdded})
+		rows, err := s.db.Query("SELECT id, body_id, set_rev, ifnull(prev_id, 0), hex(data) FROM state ORDER BY id")
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer rows.Close()
+		var out []string
+		for rows.Next() {
+			var id, body, set, prev int64
+			var data string
+			if err := rows.Scan(&id, &body, &set, &prev, &data); err != nil {
+				t.Fatal(err)
+			}
+			out = append(out, fmt.Sprint(id, body, set, prev, data))
+		}
+		return out
+	}
+	plain, fresh := dump(false), dump(true)
+	if len(plain) != 300+7 { // the moons and the planets; the star has no values
+		t.Fatalf("%d states, want %d", len(plain), 300+7)
+	}
+	if !reflect.DeepEqual(plain, fresh) {
+		for i := range min(len(plain), len(fresh)) {
+			if plain[i] != fresh[i] {
+				t.Fatalf("state %d differs:\n importer %s\n prepared %s", i, plain[i], fresh[i])
+			}
+		}
+		t.Fatalf("%d states against %d", len(plain), len(fresh))
 	}
 }

@@ -137,30 +137,33 @@ func buildPlan(ix *catIndex, moon *schema.Body, prof *profile.Profile) (*plan, e
 			stream: fnv1a(fnv1a(h, "\x00"), k), shared: shared})
 	}
 	m, rad, rho := src[rMass], src[rRadius], src[rDensity]
-	switch {
-	case m.measured && rad.measured:
-		use(rMass)
-		use(rRadius)
-	case m.measured && rho.measured:
-		use(rMass)
-		use(rDensity)
-		p.radiusFromDensity = true
-	case rad.measured && rho.measured:
-		use(rRadius)
-		use(rDensity)
-		p.massFromDensity = true
-	case m.ok && rad.ok:
-		use(rMass)
-		use(rRadius)
-	case m.ok && rho.ok:
-		use(rMass)
-		use(rDensity)
-		p.radiusFromDensity = true
-	case rad.ok && rho.ok:
-		use(rRadius)
-		use(rDensity)
-		p.massFromDensity = true
-	default:
+	// Two of mass, radius and density: measured pairs first, then any pair
+	// (a prior filling one), in the order mass–radius, mass–density,
+	// radius–density.
+	sized := false
+	for _, has := range []func(source) bool{
+		func(s source) bool { return s.measured },
+		func(s source) bool { return s.ok },
+	} {
+		switch {
+		case has(m) && has(rad):
+			use(rMass)
+			use(rRadius)
+		case has(m) && has(rho):
+			use(rMass)
+			use(rDensity)
+			p.radiusFromDensity = true
+		case has(rad) && has(rho):
+			use(rRadius)
+			use(rDensity)
+			p.massFromDensity = true
+		default:
+			continue
+		}
+		sized = true
+		break
+	}
+	if !sized {
 		if !m.ok {
 			p.missing = append(p.missing, "mass (or density with radius)")
 		}
